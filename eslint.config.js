@@ -1,0 +1,27 @@
+// Lint rules: eslint's and typescript-eslint's recommended sets, plus the project's own rule that
+// library code draws randomness only from a seeded RandomStream.
+import js from "@eslint/js";
+import tseslint from "typescript-eslint";
+
+export default tseslint.config(
+  { ignores: ["dist/", "node_modules/", "reports/", "coverage/"] },
+  js.configs.recommended,
+  ...tseslint.configs.recommended,
+  {
+    languageOptions: { globals: { process: "readonly", console: "readonly", URL: "readonly" } },
+    rules: {
+      "@typescript-eslint/no-non-null-assertion": "off",
+      "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_" }],
+    },
+  },
+  {
+    files: ["src/**/*.ts"],
+    rules: {
+      "no-restricted-properties": [
+        "error",
+        { object: "Math", property: "random", message: "Use a seeded RandomStream (src/random.ts)." },
+      ],
+      "no-console": "error",
+    },
+  },
+);

@@ -1,0 +1,66 @@
+/**
+ * Error classes that carry their exit code. Library code throws these; only the bin file turns them
+ * into a line on stderr and `process.exitCode`. Exit codes follow the BSD sysexits convention so a
+ * calling script can tell a usage mistake from bad data from a bug.
+ */
+
+export const ExitCode = {
+  ok: 0,
+  /** The command line was wrong: unknown option, bad value, missing argument. */
+  usage: 64,
+  /** The input data or a file's content was wrong. */
+  data: 65,
+  /** An input file does not exist or cannot be read. */
+  noInput: 66,
+  /** A bug in headroom. */
+  internal: 70,
+  /** An output could not be written. */
+  io: 74,
+} as const;
+
+export type ExitCodeValue = (typeof ExitCode)[keyof typeof ExitCode];
+
+/** Base class: an error a user can act on, with a one-line message. */
+export class HeadroomError extends Error {
+  readonly exitCode: ExitCodeValue;
+  constructor(message: string, exitCode: ExitCodeValue) {
+    super(message);
+    this.name = new.target.name;
+    this.exitCode = exitCode;
+  }
+}
+
+/** Wrong command-line use or option value. */
+export class UsageError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.usage);
+  }
+}
+
+/** Bad content in an input file (CSV, JSON, plan). */
+export class DataError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.data);
+  }
+}
+
+/** A curve could not be fitted or a forecast could not be made from the given points. */
+export class FitError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.data);
+  }
+}
+
+/** An input file is missing or unreadable. */
+export class InputError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.noInput);
+  }
+}
+
+/** An output could not be written. */
+export class OutputError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.io);
+  }
+}

@@ -1,0 +1,126 @@
+/**
+ * Reads a CSV file into rows of text cells, each with the line it starts on, so that every later
+ * error can name file, line and column.
+ *
+ * Parsing is papaparse's (quotes, embedded newlines). We add what it lacks: a delimiter chosen from
+ * the header line alone (`,` `;` or tab, whichever it holds most; papaparse's guess looks at data
+ * rows, where a decimal comma can mislead it), refusing binary and non-UTF-8 content with the line where it starts, and a
+ * line number per row (papaparse reports only a row index, which drifts from lines as soon as a
+ * quoted cell holds a newline or a blank line is skipped).
+ */
+import { readFileSync, statSync } from "node:fs";
+import Papa from "papaparse";
+import { DataError, InputError } from "../errors.js";
+import { message } from "../messages.js";
+
+export interface CsvTable {
+  /** The file as named by the user, for messages. */
+  file: string;
+  header: string[];
+  /** Data rows (blank lines dropped); each as long as the file had it. */
+  rows: string[][];
+  /** 1-based line on which each data row starts. */
+  lines: number[];
+}
+
+/** Reads and parses a CSV file; throws InputError if unreadable, DataError if not CSV text. */
+export function readCsv(file: string): CsvTable {
+  return parseCsv(readTextFile(file), file);
+}
+
+/**
+ * Reads a file as UTF-8 text (a leading byte-order mark is dropped).
+ * @throws InputError when missing or unreadable; DataError when binary or not UTF-8.
+ */
+export function readTextFile(file: string): string {
+  let bytes: Buffer;
+  try {
+    if (statSync(file).isDirectory()) throw new InputError(message.fileUnreadable(file, "it is a folder"));
+    bytes = readFileSync(file);
+  } catch (error) {
+    if (error instanceof InputError) throw error;
+    const code = (error as NodeJS.ErrnoException).code;
+    if (code === "ENOENT") throw new InputError(message.fileMissing(file));
+    throw new InputError(message.fileUnreadable(file, code ?? String(error)));
+  }
+  const nul = bytes.indexOf(0);
+  if (nul >= 0) throw new DataError(message.binaryContent(file, lineOfByte(bytes, nul)));
+  try {
+    const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+    return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  } catch {
+    throw new DataError(message.notUtf8(file, lineOfByte(bytes, firstInvalidUtf8(bytes))));
+  }
+}
+
+/** Parses CSV text. `file` is used in messages only. */
+export function parseCsv(text: string, file: string): CsvTable {
+  if (text.trim() === "") throw new DataError(message.emptyFile(file));
+  const rows: string[][] = [];
+  const lines: number[] = [];
+  let rowStart = 0;
+  let scanned = 0;
+  let line = 1;
+  let failure: DataError | undefined;
+  Papa.parse<string[]>(text, {
+    header: false,
+    skipEmptyLines: false,
+    delimiter: headerDelimiter(text),
+    step: (result, parser) => {
+      // Advance the line count to the start of this row.
+      for (; scanned < rowStart; scanned++) if (text.charCodeAt(scanned) === 10) line++;
+      const error = result.errors[0];
+      if (error !== undefined) {
+        failure = new DataError(message.csvSyntax(file, line, error.message));
+        parser.abort();
+        return;
+      }
+      const cells = result.data;
+      if (!(cells.length === 1 && cells[0].trim() === "")) {
+        rows.push(cells);
+        lines.push(line);
+      }
+      rowStart = result.meta.cursor;
+      // papaparse's cursor stops before the newline ending the row; skip it so the count is exact.
+      if (text.charCodeAt(rowStart) === 13) rowStart++;
+      if (text.charCodeAt(rowStart) === 10) rowStart++;
+    },
+  });
+  if (failure) throw failure;
+  if (rows.length === 0) throw new DataError(message.emptyFile(file));
+  const header = rows[0].map((name) => name.trim());
+  if (rows.length === 1) throw new DataError(message.headerOnly(file));
+  return { file, header, rows: rows.slice(1), lines: lines.slice(1) };
+}
+
+function headerDelimiter(text: string): string {
+  const end = text.indexOf("\n");
+  const header = end < 0 ? text : text.slice(0, end);
+  const count = (d: string) => header.split(d).length - 1;
+  const candidates = [",", ";", "\t"].map((d) => ({ d, n: count(d) }));
+  const best = candidates.reduce((a, b) => (b.n > a.n ? b : a));
+  return best.n > 0 ? best.d : ",";
+}
+
+function lineOfByte(bytes: Buffer, offset: number): number {
+  let line = 1;
+  for (let i = 0; i < offset; i++) if (bytes[i] === 10) line++;
+  return line;
+}
+
+/** Offset of the first byte that breaks UTF-8, found by decoding growing prefixes line by line. */
+function firstInvalidUtf8(bytes: Buffer): number {
+  const decoder = new TextDecoder("utf-8", { fatal: true });
+  let start = 0;
+  while (start < bytes.length) {
+    let end = bytes.indexOf(10, start);
+    if (end < 0) end = bytes.length;
+    try {
+      decoder.decode(bytes.subarray(start, end));
+    } catch {
+      return start;
+    }
+    start = end + 1;
+  }
+  return 0;
+}

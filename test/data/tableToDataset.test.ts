@@ -1,0 +1,36 @@
+import { describe, expect, it } from "vitest";
+import { parseCsv } from "../../src/data/csv.js";
+import { tableToDataset } from "../../src/data/tableToDataset.js";
+
+const csv = (text: string) => parseCsv(text, "d.csv");
+
+describe("tableToDataset", () => {
+  it("converts features, marks empty and NA cells missing, sorts class names", () => {
+    const data = tableToDataset(csv("id,x,y,run,class\n1,1.5,,r1,b\n2,-2e1,NA,r2,a\n3,.5,3,r1,b\n"), {
+      label: "class",
+      group: "run",
+      ignore: ["id"],
+    });
+    expect(data.featureNames).toEqual(["x", "y"]);
+    expect([...data.features]).toEqual([1.5, NaN, -20, NaN, 0.5, 3]);
+    expect(data.classNames).toEqual(["a", "b"]);
+    expect([...data.labels]).toEqual([1, 0, 1]);
+    expect(data.groupNames).toEqual(["r1", "r2"]);
+    expect([...(data.groups as Int32Array)]).toEqual([0, 1, 0]);
+  });
+
+  it.each([
+    ["a non-number", "x,c\n1,a\n0x10,b\n", "d.csv:3:1: '0x10' in column 'x' is not a number"],
+    ["NaN", "x,c\n1,a\nNaN,b\n", "d.csv:3:1: 'NaN' in column 'x' is not a finite number"],
+    ["Infinity", "x,c\n1,a\n-Infinity,b\n", "d.csv:3:1: '-Infinity' in column 'x' is not a finite number"],
+    ["an overflow", "x,c\n1,a\n1e999,b\n", "d.csv:3:1: '1e999' in column 'x' is not a finite number"],
+    ["a ragged row", "x,c\n1,a\n2\n", "d.csv:3: expected 2 fields as in the header, found 1"],
+    ["a duplicate column", "x,x,c\n1,2,a\n", "d.csv:1:2: duplicate column name 'x' (also column 1)"],
+    ["an empty column name", "x,,c\n1,2,a\n", "d.csv:1:2: the header has an empty column name"],
+    ["an empty label", "x,c\n1,a\n2,\n", "d.csv:3:2: the label 'c' is empty"],
+    ["one class only", "x,c\n1,a\n2,a\n", "d.csv: the label column 'c' has only one class ('a')"],
+    ["a missing label column", "x,y\n1,a\n", "d.csv: --label column 'c' is not in the header (columns: 'x', 'y')"],
+  ])("rejects %s with file, line and column", (_, text, expected) => {
+    expect(() => tableToDataset(csv(text), { label: "c" })).toThrow(expected);
+  });
+});

@@ -1,0 +1,41 @@
+/**
+ * Stratified k-fold: each fold holds about 1/k of every class. Rows of each class are shuffled and
+ * dealt round-robin to the folds, continuing the deal from one class to the next so fold sizes differ
+ * by at most one row. This is the usual construction (e.g. Kohavi 1995, "A study of cross-validation
+ * and bootstrap for accuracy estimation and model selection"); fold membership differs from
+ * scikit-learn's StratifiedKFold, which allots class counts per fold differently, but the invariants
+ * are the same: disjoint test folds covering every row once, class proportions kept.
+ */
+import { RandomStream } from "../random.js";
+import type { Split } from "./split.js";
+
+/**
+ * @param labels class index of each row
+ * @param folds number of folds, at least 2 and at most the number of rows
+ * @param random the stream that decides this repeat's folds
+ */
+export function stratifiedKFold(labels: Int32Array, folds: number, random: RandomStream): Split[] {
+  const rows = labels.length;
+  const byClass = new Map<number, number[]>();
+  for (let i = 0; i < rows; i++) {
+    const list = byClass.get(labels[i]);
+    if (list) list.push(i);
+    else byClass.set(labels[i], [i]);
+  }
+  const foldOf = new Int32Array(rows);
+  let next = random.integer(folds);
+  for (const cls of [...byClass.keys()].sort((a, b) => a - b)) {
+    for (const row of random.shuffle(byClass.get(cls) as number[])) {
+      foldOf[row] = next;
+      next = (next + 1) % folds;
+    }
+  }
+  const splits: Split[] = [];
+  for (let f = 0; f < folds; f++) {
+    const test: number[] = [];
+    const train: number[] = [];
+    for (let i = 0; i < rows; i++) (foldOf[i] === f ? test : train).push(i);
+    splits.push({ train: Int32Array.from(train), test: Int32Array.from(test) });
+  }
+  return splits;
+}

@@ -1,0 +1,30 @@
+/**
+ * Invariant checks for splitters, after scikit-learn's `check_valid_split` idea: test folds are
+ * disjoint, cover every row exactly once, and each fold's training part is the complement of its
+ * test part.
+ */
+import { expect } from "vitest";
+import type { Split } from "../../src/splitters/split.js";
+
+export function expectValidKFold(splits: Split[], rows: number): void {
+  const seen = new Int32Array(rows);
+  for (const { train, test } of splits) {
+    expect(train.length + test.length).toBe(rows);
+    const inTest = new Set(test);
+    for (const row of train) expect(inTest.has(row)).toBe(false);
+    for (const row of test) seen[row]++;
+  }
+  expect([...seen].every((count) => count === 1)).toBe(true);
+}
+
+/** Each test fold holds each class's count divided by the folds, to within one row. */
+export function expectStratified(splits: Split[], labels: Int32Array): void {
+  const classes = Math.max(...labels) + 1;
+  const total = new Array<number>(classes).fill(0);
+  for (const label of labels) total[label]++;
+  for (const { test } of splits) {
+    const counts = new Array<number>(classes).fill(0);
+    for (const row of test) counts[labels[row]]++;
+    counts.forEach((count, k) => expect(Math.abs(count - total[k] / splits.length)).toBeLessThanOrEqual(1));
+  }
+}

@@ -1,0 +1,40 @@
+/** Reads a forecast.json written by `headroom forecast`, checking the keys the later steps use. */
+import * as z from "zod";
+import { DataError } from "../errors.js";
+import { readJsonFile } from "../io/files.js";
+import { validate } from "../io/validate.js";
+import { message } from "../messages.js";
+import type { ForecastFile } from "./forecastFile.js";
+
+const finite = z.number().refine(Number.isFinite, "must be a finite number");
+
+const forecastSchema = z.object({
+  kind: z.literal("headroom-forecast"),
+  version: z.literal(1),
+  metric: z.string(),
+  higherIsBetter: z.boolean(),
+  level: z.number().gt(0).lt(1),
+  largestMeasuredSize: z.number().positive(),
+  projections: z.array(
+    z.object({
+      trainingSize: z.number().int().positive(),
+      expected: finite,
+      lower: finite,
+      upper: finite,
+      level: z.number().gt(0).lt(1),
+      draws: z.array(finite),
+    }),
+  ),
+  band: z.array(z.object({ trainingSize: finite, expected: finite, lower: finite, upper: finite })),
+  measured: z.array(z.object({ trainingSize: finite, mean: finite, standardDeviation: finite, fits: z.number() })),
+  warnings: z.array(z.string()),
+});
+
+export function readForecast(file: string): ForecastFile {
+  const value = readJsonFile(file);
+  if (typeof value !== "object" || value === null || (value as { kind?: unknown }).kind !== "headroom-forecast") {
+    throw new DataError(message.wrongFileKind(file, "forecast.json"));
+  }
+  validate(forecastSchema, value, file);
+  return value as ForecastFile;
+}

@@ -1,0 +1,148 @@
+/**
+ * Numbers and names in words for the report: counts with thousands separators, scores as percent
+ * when the metric is a fraction, money with its currency, run counts in words.
+ *
+ * Everything here is deterministic and locale-free (no `toLocaleString`, whose output depends on the
+ * ICU data Node was built with), so the same input gives byte-identical reports everywhere.
+ */
+import { findMetric } from "../curve/metrics.js";
+
+/** The minus sign used in prose and tables (U+2212), which lines up with digits unlike "-". */
+const minus = "\u2212";
+
+/** Groups the digits of a non-negative integer string in threes with commas ("66000" → "66,000"). */
+function groupThousands(digits: string): string {
+  return digits.replace(/\B(?=(\d{3})+(?!\d))/g, ",");
+}
+
+/**
+ * A number with a fixed number of decimals and comma thousands separators, with a true minus sign.
+ * Values that round to zero print without a sign.
+ */
+export function formatNumber(value: number, decimals = 0): string {
+  if (!Number.isFinite(value)) return String(value);
+  const fixed = Math.abs(value).toFixed(decimals);
+  const [whole, fraction] = fixed.split(".");
+  const body = groupThousands(whole) + (fraction === undefined ? "" : "." + fraction);
+  const isZero = Number(fixed) === 0;
+  return (value < 0 && !isZero ? minus : "") + body;
+}
+
+/** A count of samples or rows: "66,000". */
+export function formatCount(value: number): string {
+  return formatNumber(Math.round(value), 0);
+}
+
+/**
+ * An amount of money: whole units from 1,000 up, otherwise up to two decimals without trailing
+ * zeros; the currency code or symbol follows when given ("66,000 EUR").
+ */
+export function formatMoney(value: number, currency?: string): string {
+  let text: string;
+  if (Math.abs(value) >= 1000 || Number.isInteger(value)) {
+    text = formatNumber(value, 0);
+  } else {
+    text = formatNumber(value, 2).replace(/\.?0+$/, "");
+  }
+  return currency ? `${text} ${currency}` : text;
+}
+
+/** Calendar months: "9 months", "1 month", "1.5 months". */
+export function formatMonths(months: number): string {
+  const text = formatNumber(months, Number.isInteger(months) ? 0 : 1);
+  return `${text} ${text === "1" ? "month" : "months"}`;
+}
+
+/** A probability in percent, saying "under 1%" and "over 99%" rather than rounding to 0% or 100%. */
+export function formatProbability(probability: number): string {
+  if (probability < 0.005) return probability <= 0 ? "0%" : "under 1%";
+  if (probability > 0.995) return probability >= 1 ? "100%" : "over 99%";
+  return `${Math.round(probability * 100)}%`;
+}
+
+/** An interval level as a percentage: 0.8 → "80%", 0.95 → "95%", 0.995 → "99.5%". */
+export function formatLevel(level: number): string {
+  const percent = level * 100;
+  return `${formatNumber(percent, Number.isInteger(Math.round(percent * 10) / 10) ? 0 : 1)}%`;
+}
+
+/**
+ * How scores of one metric are shown. `percent` when the metric is a fraction in [0, 1] (accuracy
+ * 0.81 → "81%"); otherwise plain numbers with `decimals` chosen from the size of the values.
+ */
+export interface ScoreStyle {
+  percent: boolean;
+  /** Decimals after the point (of the percentage when `percent`). */
+  decimals: number;
+}
+
+/** What the report needs to know about a metric: its name in words and whether it is a fraction. */
+export interface MetricInfo {
+  /** The metric in words, capitalised for an axis title or table heading ("Accuracy"). */
+  title: string;
+  /** The metric in words inside a sentence ("accuracy"). */
+  inSentence: string;
+  /** Whether scores are fractions in [0, 1] and shown as percent. */
+  isFraction: boolean;
+  higherIsBetter: boolean;
+}
+
+/**
+ * Describes a metric from its name and, when known, its range. The words come from the metric's own
+ * label in `src/curve/metrics.ts`; an unknown name ("balanced_accuracy") is spelled out by replacing
+ * underscores and dashes with spaces. The metric counts as a fraction when its range is exactly
+ * [0, 1].
+ */
+export function describeMetric(metric: string, higherIsBetter: boolean, metricRange?: [number, number]): MetricInfo {
+  const known = findMetric(metric);
+  const words = (known?.label ?? metric.replace(/[_-]+/g, " ").trim()) || "score";
+  const range = metricRange ?? known?.range;
+  return {
+    title: words.charAt(0).toUpperCase() + words.slice(1),
+    inSentence: words,
+    isFraction: range !== undefined && range[0] === 0 && range[1] === 1,
+    higherIsBetter,
+  };
+}
+
+/**
+ * The style for showing `values` of a metric so that values which differ visibly stay distinct:
+ * percentages get one decimal unless `wholePercent` (headlines); plain numbers get three significant
+ * digits of the largest magnitude.
+ */
+export function scoreStyle(info: MetricInfo, values: readonly number[], wholePercent = false): ScoreStyle {
+  if (info.isFraction) return { percent: true, decimals: wholePercent ? 0 : 1 };
+  const largest = Math.max(0, ...values.filter(Number.isFinite).map(Math.abs));
+  const decimals = largest === 0 ? 2 : Math.min(6, Math.max(0, 2 - Math.floor(Math.log10(largest))));
+  return { percent: false, decimals };
+}
+
+/** A score in the given style: 0.8123 → "81.2%" (percent, 1 decimal) or "0.812" (3 decimals). */
+export function formatScore(value: number, style: ScoreStyle): string {
+  return style.percent ? `${formatNumber(value * 100, style.decimals)}%` : formatNumber(value, style.decimals);
+}
+
+/**
+ * A given score such as a target, with as many decimals as it needs (up to four) so that it is shown
+ * as given: 0.85 → "85%", 0.855 → "85.5%", 0.1234 → "0.1234" (not a fraction).
+ */
+export function formatExactScore(value: number, info: MetricInfo): string {
+  const scaled = info.isFraction ? value * 100 : value;
+  let decimals = 0;
+  while (decimals < 4 && Math.abs(Number(scaled.toFixed(decimals)) - scaled) > 1e-9) decimals++;
+  return formatScore(value, { percent: info.isFraction, decimals });
+}
+
+const numberWords = ["no", "one", "two", "three", "four", "five", "six", "seven", "eight", "nine", "ten"];
+
+/** A small count in words ("three"), larger ones as digits ("12"). */
+export function countInWords(count: number): string {
+  return Number.isInteger(count) && count >= 0 && count < numberWords.length ? numberWords[count] : formatCount(count);
+}
+
+/** "One more run", "Three more runs", "12 more runs" (capitalised for the start of a sentence). */
+export function moreRuns(runs: number): string {
+  const words = countInWords(runs);
+  const phrase = `${words} more ${runs === 1 ? "run" : "runs"}`;
+  return phrase.charAt(0).toUpperCase() + phrase.slice(1);
+}

@@ -1,0 +1,49 @@
+/**
+ * The learner interface. A learner only fits and predicts; splitting and scoring live elsewhere.
+ * Features arrive raw (NaN for missing); each learner's `fit` applies the preprocessing it needs,
+ * fitted on its own training rows only.
+ */
+import type { RandomStream } from "../random.js";
+
+export interface TrainingSet {
+  /** Row-major, `rows × columns`. */
+  features: Float64Array;
+  rows: number;
+  columns: number;
+  /** Class index per row, in `0 .. classCount - 1`. */
+  labels: Int32Array;
+  /** Number of classes in the whole data set (a training subsample may lack some). */
+  classCount: number;
+}
+
+export interface FittedModel {
+  /**
+   * Class probabilities for each row: row-major `rows × classCount`.
+   * @param features row-major, `rows × columns`
+   */
+  predictProbabilities(features: Float64Array, rows: number): Float64Array;
+}
+
+export interface Learner {
+  /** Our name for the learner, as given to `--learner`. */
+  readonly name: string;
+  fit(training: TrainingSet, random: RandomStream): FittedModel;
+}
+
+/** The most probable class of each row (ties go to the lower class index, as numpy's argmax). */
+export function predictClasses(probabilities: Float64Array, rows: number, classCount: number): Int32Array {
+  const out = new Int32Array(rows);
+  for (let i = 0; i < rows; i++) {
+    let best = 0;
+    let bestP = probabilities[i * classCount];
+    for (let k = 1; k < classCount; k++) {
+      const p = probabilities[i * classCount + k];
+      if (p > bestP) {
+        bestP = p;
+        best = k;
+      }
+    }
+    out[i] = best;
+  }
+  return out;
+}

@@ -1,0 +1,151 @@
+import { describe, it, expect } from "vitest";
+import fc from "fast-check";
+import { fitPreprocessor } from "../../src/learners/preprocess.js";
+import { DataError } from "../../src/errors.js";
+
+/** Row-major matrix from rows. */
+function matrix(rows: number[][]): Float64Array {
+  return Float64Array.from(rows.flat());
+}
+
+describe("fitPreprocessor", () => {
+  it("imputes the median of the non-missing training values, then standardizes with the population sd", () => {
+    // Hand-computed: column 0 is 1, NaN, 3, 4 → median of {1, 3, 4} is 3; imputed 1, 3, 3, 4 has mean
+    // 2.75 and population variance (1.75² + 0.25² + 0.25² + 1.25²)/4 = 1.1875.
+    // Column 1 is 1, 2, 10, 20 → no NaN; mean 8.25, variance (7.25² + 6.25² + 1.75² + 11.75²)/4 = 58.1875.
+    const features = matrix([
+      [1, 1],
+      [NaN, 2],
+      [3, 10],
+      [4, 20],
+    ]);
+    const pre = fitPreprocessor(features, 4, 2);
+    expect(Array.from(pre.imputedValues)).toEqual([3, 6]); // column 1: median of 1, 2, 10, 20 is (2 + 10)/2
+    expect(pre.means[0]).toBeCloseTo(2.75, 14);
+    expect(pre.means[1]).toBeCloseTo(8.25, 14);
+    expect(pre.scales[0]).toBeCloseTo(Math.sqrt(1.1875), 14);
+    expect(pre.scales[1]).toBeCloseTo(Math.sqrt(58.1875), 14);
+    const out = pre.transform(features, 4);
+    const expected = [
+      [(1 - 2.75) / Math.sqrt(1.1875), (1 - 8.25) / Math.sqrt(58.1875)],
+      [(3 - 2.75) / Math.sqrt(1.1875), (2 - 8.25) / Math.sqrt(58.1875)],
+      [(3 - 2.75) / Math.sqrt(1.1875), (10 - 8.25) / Math.sqrt(58.1875)],
+      [(4 - 2.75) / Math.sqrt(1.1875), (20 - 8.25) / Math.sqrt(58.1875)],
+    ].flat();
+    expected.forEach((v, i) => expect(out[i]).toBeCloseTo(v, 13));
+  });
+
+  it("fits on training rows only: extreme or missing test values do not move the imputation or scaling", () => {
+    const training = matrix([[2], [4], [NaN], [9]]); // median 4; imputed 2, 4, 4, 9: mean 4.75
+    const test = matrix([[NaN], [1e9], [-1e9]]);
+    const pre = fitPreprocessor(training, 4, 1);
+    const variance = ((2 - 4.75) ** 2 + 2 * (4 - 4.75) ** 2 + (9 - 4.75) ** 2) / 4;
+    const out = pre.transform(test, 3);
+    expect(out[0]).toBeCloseTo((4 - 4.75) / Math.sqrt(variance), 13); // NaN takes the training median
+    expect(out[1]).toBeCloseTo((1e9 - 4.75) / Math.sqrt(variance), 4);
+    expect(out[2]).toBeCloseTo((-1e9 - 4.75) / Math.sqrt(variance), 4);
+    // Fitting on all seven rows would have given a different median and mean.
+    const all = fitPreprocessor(matrix([[2], [4], [NaN], [9], [NaN], [1e9], [-1e9]]), 7, 1);
+    expect(all.means[0]).not.toBeCloseTo(pre.means[0], 1);
+  });
+
+  it("imputes 0 in a column with no training value and gives constant columns scale 1 (as StandardScaler)", () => {
+    const training = matrix([
+      [NaN, 5, 1],
+      [NaN, 5, 2],
+      [NaN, 5, 3],
+    ]);
+    const pre = fitPreprocessor(training, 3, 3);
+    expect(Array.from(pre.imputedValues)).toEqual([0, 5, 2]);
+    expect(Array.from(pre.scales.subarray(0, 2))).toEqual([1, 1]);
+    const out = pre.transform(
+      matrix([
+        [NaN, 5, 2],
+        [7, 8, 2],
+      ]),
+      2,
+    );
+    expect(Array.from(out)).toEqual([0, 0, 0, 7, 3, 0]);
+  });
+
+  it("treats a column whose variance is rounding error as constant (StandardScaler's bound)", () => {
+    // 0.1 + 0.2 style rounding: values equal to within one ulp.
+    const values = [0.30000000000000004, 0.3, 0.30000000000000004, 0.3];
+    const pre = fitPreprocessor(Float64Array.from(values), 4, 1);
+    expect(pre.scales[0]).toBe(1);
+  });
+
+  it("gives the output of its doc example", () => {
+    // Column 1, NaN, 3: the NaN imputes the median 2, so the imputed column has mean 2 and NaN maps to 0.
+    expect(
+      Array.from(fitPreprocessor(new Float64Array([1, NaN, 3]), 3, 1).transform(new Float64Array([NaN]), 1)),
+    ).toEqual([0]);
+  });
+
+  it("does not change its input", () => {
+    const training = matrix([
+      [1, NaN],
+      [2, 3],
+      [NaN, 4],
+    ]);
+    const copy = training.slice();
+    const pre = fitPreprocessor(training, 3, 2);
+    pre.transform(training, 3);
+    expect(Array.from(training)).toEqual(Array.from(copy));
+  });
+
+  it.each([
+    ["no rows", () => fitPreprocessor(new Float64Array(0), 0, 2)],
+    ["a length that is not rows × columns", () => fitPreprocessor(new Float64Array(5), 2, 3)],
+    ["an infinite training value", () => fitPreprocessor(Float64Array.from([1, Infinity]), 2, 1)],
+    [
+      "an infinite value to transform",
+      () => fitPreprocessor(Float64Array.from([1, 2]), 2, 1).transform(Float64Array.from([-Infinity]), 1),
+    ],
+    [
+      "a wrong column count to transform",
+      () => fitPreprocessor(Float64Array.from([1, 2]), 2, 1).transform(Float64Array.from([1, 2]), 1),
+    ],
+  ])("throws a DataError on %s", (_case, call) => {
+    expect(call).toThrow(DataError);
+  });
+
+  it("gives training columns mean 0 and population sd 1 (or 0 when constant), whatever the values", () => {
+    // Multiples of 1/8 up to ±125000: exact in binary, so distinct values differ far above rounding.
+    const eighths = fc.integer({ min: -1_000_000, max: 1_000_000 }).map((v) => v / 8);
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 12 }).chain((rows) =>
+          fc.tuple(
+            fc.constant(rows),
+            fc.integer({ min: 1, max: 4 }).chain((columns) =>
+              fc.tuple(
+                fc.constant(columns),
+                fc.array(fc.oneof(eighths, fc.constant(NaN)), {
+                  minLength: rows * columns,
+                  maxLength: rows * columns,
+                }),
+              ),
+            ),
+          ),
+        ),
+        ([rows, [columns, values]]) => {
+          const features = Float64Array.from(values);
+          const pre = fitPreprocessor(features, rows, columns);
+          const out = pre.transform(features, rows);
+          for (let j = 0; j < columns; j++) {
+            let mean = 0;
+            for (let i = 0; i < rows; i++) mean += out[i * columns + j] / rows;
+            let variance = 0;
+            for (let i = 0; i < rows; i++) variance += (out[i * columns + j] - mean) ** 2 / rows;
+            expect(Number.isFinite(mean)).toBe(true);
+            expect(Math.abs(mean)).toBeLessThan(1e-6);
+            // Either standardized (variance 1) or constant and only centred (variance ~0).
+            expect(Math.min(Math.abs(variance - 1), variance)).toBeLessThan(1e-6);
+          }
+        },
+      ),
+      { numRuns: 200, seed: 20261201 },
+    );
+  });
+});

@@ -1,0 +1,59 @@
+import { Command } from "commander";
+import { SingleBar } from "cli-progress";
+import { availableParallelism } from "node:os";
+import { basename, extname, join } from "node:path";
+import { runStudy } from "../../study/runStudy.js";
+import type { CliIo } from "../io.js";
+import { optionalInteger } from "../parseOptions.js";
+
+/** Options shared by `study` and `demo`. */
+export function addRunOptions(command: Command): Command {
+  return command
+    .option("--workers <w>", "worker threads (default: the number of cores)")
+    .option("--quiet", "draw no progress bar and print nothing on success");
+}
+
+/** Runs a study file with progress on a terminal and a summary at the end. */
+export async function runStudyFromCli(
+  io: CliIo,
+  studyFile: string,
+  outDir: string,
+  options: Record<string, string | boolean | undefined>,
+  commandLine: string,
+): Promise<void> {
+  const bar =
+    !options.quiet && io.stderrIsTerminal
+      ? new SingleBar({ format: "fits {bar} {value}/{total} | {eta}s left" })
+      : undefined;
+  const result = await runStudy(studyFile, {
+    outDir,
+    workers: optionalInteger("--workers", options.workers as string | undefined, 1) ?? availableParallelism(),
+    command: commandLine,
+    onProgress: bar
+      ? (done, total) => {
+          if (done === 1) bar.start(total, 0);
+          bar.update(done);
+          if (done === total) bar.stop();
+        }
+      : undefined,
+  });
+  if (!options.quiet) {
+    const { decision } = result;
+    io.stdout(`recommended: ${decision.recommendedRuns} further run(s). ${decision.reasons.recommendedRuns}\n`);
+    if (decision.reasons.runsToTarget) io.stdout(`target: ${decision.reasons.runsToTarget}\n`);
+    io.stderr(`wrote ${result.written.join(", ")}\n`);
+  }
+}
+
+export function studyCommand(io: CliIo, commandLine: string): Command {
+  return addRunOptions(
+    new Command("study")
+      .description("run the whole job from one study file: measure, forecast, weigh and report")
+      .argument("<study>", "study.json naming the data, label, options and plan")
+      .option("--out <dir>", "folder for the outputs (default: reports/<study name>)"),
+  ).action(async (studyFile: string, options: Record<string, string | boolean | undefined>) => {
+    const outDir =
+      typeof options.out === "string" ? options.out : join("reports", basename(studyFile, extname(studyFile)));
+    await runStudyFromCli(io, studyFile, outDir, options, commandLine);
+  });
+}

@@ -1,0 +1,7 @@
+/** What a command may touch of the outside world; tests pass their own. */
+export interface CliIo {
+  stdout(text: string): void;
+  stderr(text: string): void;
+  /** Whether stderr is a terminal (progress bars are drawn only then). */
+  stderrIsTerminal: boolean;
+}

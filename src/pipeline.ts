@@ -1,0 +1,20 @@
+/**
+ * The steps of the main job as library calls, each from files to a typed result: what the command
+ * line and the study runner compose.
+ */
+import { basename } from "node:path";
+import { readCsv } from "./data/csv.js";
+import { tableToDataset, type ColumnChoice } from "./data/tableToDataset.js";
+import type { CurveFile } from "./curve/curveFile.js";
+import { measureCurve, type MeasureOptions } from "./curve/measure.js";
+import { sha256OfFile } from "./io/files.js";
+
+/** Reads a CSV, builds the data set and measures its learning curve. */
+export async function measureFile(file: string, options: ColumnChoice & MeasureOptions): Promise<CurveFile> {
+  const dataset = tableToDataset(readCsv(file), options);
+  return measureCurve(dataset, file, options, {
+    label: options.label,
+    ...(options.group === undefined ? {} : { group: options.group }),
+    source: { file: basename(file), sha256: sha256OfFile(file) },
+  });
+}

@@ -1,0 +1,43 @@
+/**
+ * The study file: one JSON file that names the data, the measurement options, the plan and the
+ * context, so the whole job runs with one command and can be rerun exactly.
+ */
+import * as z from "zod";
+import { planSchema } from "../weigh/plan.js";
+
+export const studySchema = z.strictObject({
+  /** Shown as the report's title. */
+  title: z.string().optional(),
+  /** The CSV, relative to the study file. */
+  data: z.string().min(1),
+  label: z.string().min(1),
+  group: z.string().min(1).optional(),
+  ignore: z.array(z.string()).optional(),
+  measure: z
+    .strictObject({
+      folds: z.number().int().min(2).optional(),
+      repeats: z.number().int().min(1).optional(),
+      sizes: z.array(z.number().int().positive()).min(1).optional(),
+      seed: z.number().int().nonnegative().optional(),
+      learner: z.string().optional(),
+      metric: z.string().optional(),
+    })
+    .default({}),
+  forecast: z
+    .strictObject({
+      level: z.number().gt(0).lt(1).optional(),
+      draws: z.number().int().min(20).max(10000).optional(),
+    })
+    .default({}),
+  plan: planSchema,
+  context: z
+    .strictObject({
+      /** What the model's decisions touch: e.g. "clinical", "public-health", "safety", "research". */
+      domain: z.string().optional(),
+      /** Currency of costs and values, shown in the report. */
+      currency: z.string().max(12).optional(),
+    })
+    .default({}),
+});
+
+export type Study = z.infer<typeof studySchema>;

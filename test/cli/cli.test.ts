@@ -1,0 +1,116 @@
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+import { run } from "../../src/cli/program.js";
+import { ExitCode } from "../../src/errors.js";
+
+function capture() {
+  const out: string[] = [];
+  const err: string[] = [];
+  return {
+    io: { stdout: (t: string) => void out.push(t), stderr: (t: string) => void err.push(t), stderrIsTerminal: false },
+    stdout: () => out.join(""),
+    stderr: () => err.join(""),
+  };
+}
+
+const dir = mkdtempSync(join(tmpdir(), "headroom-cli-"));
+
+describe("headroom demo, end to end", () => {
+  it("writes the report and the JSON files, and recommends a number of runs", async () => {
+    const out = join(dir, "demo");
+    const c = capture();
+    const code = await run(["demo", "--out", out, "--workers", "1"], c.io);
+    expect(c.stderr()).not.toContain("headroom:");
+    expect(code).toBe(ExitCode.ok);
+    for (const name of ["curve.json", "forecast.json", "decision.json", "decision.csv", "report.html"]) {
+      expect(existsSync(join(out, name))).toBe(true);
+    }
+    const curve = JSON.parse(readFileSync(join(out, "curve.json"), "utf8"));
+    const decision = JSON.parse(readFileSync(join(out, "decision.json"), "utf8"));
+    // The demo study's plan: up to 6 further runs of 45 samples on top of the data set's rows.
+    expect(decision.table.map((r: { trainingSize: number }) => r.trainingSize)).toEqual(
+      Array.from({ length: 7 }, (_, k) => curve.rows + 45 * k),
+    );
+    expect(c.stdout()).toMatch(/^recommended: \d further run/);
+    const html = readFileSync(join(out, "report.html"), "utf8");
+    expect(html).toContain("<html");
+    expect(html).toContain("Content-Security-Policy");
+  });
+});
+
+describe("the measure → forecast → weigh → report chain", () => {
+  it("runs each step from the previous step's file", async () => {
+    const data = join(dir, "iris.csv");
+    writeFileSync(data, readFileSync(new URL("../../fixtures/open-data/iris.csv", import.meta.url)));
+    const curveFile = join(dir, "curve.json");
+    const forecastFile = join(dir, "forecast.json");
+    const planFile = join(dir, "plan.json");
+    const decisionFile = join(dir, "decision.json");
+    writeFileSync(
+      planFile,
+      JSON.stringify({ samplesPerRun: 30, costPerRun: 500, maxRuns: 2, valuePerPoint: 100, target: 0.97 }),
+    );
+    const steps = [
+      ["measure", data, "--label", "class", "--repeats", "2", "--workers", "1", "--quiet", "--out", curveFile],
+      ["forecast", curveFile, "--at", "150,180,210", "--out", forecastFile],
+      ["weigh", forecastFile, "--plan", planFile, "--out", decisionFile],
+      [
+        "report",
+        "--curve",
+        curveFile,
+        "--forecast",
+        forecastFile,
+        "--decision",
+        decisionFile,
+        "--quiet",
+        "--out",
+        join(dir, "r.html"),
+      ],
+    ];
+    for (const argv of steps) {
+      const c = capture();
+      expect(await run(argv, c.io), `${argv[0]}: ${c.stderr()}`).toBe(ExitCode.ok);
+    }
+    const decision = JSON.parse(readFileSync(decisionFile, "utf8"));
+    expect(decision.table).toHaveLength(3);
+  });
+});
+
+describe("bad input", () => {
+  it.each([
+    [
+      ["measure", "/nonexistent/x.csv", "--label", "y", "--out", "o.json"],
+      ExitCode.noInput,
+      "headroom: /nonexistent/x.csv: no such file\n",
+    ],
+    [
+      ["measure", "x.csv", "--label", "y", "--folds", "two", "--out", "o.json"],
+      ExitCode.usage,
+      "headroom: --folds: 'two' is not a whole number of at least 2\n",
+    ],
+    [
+      ["measure", "x.csv", "--out", "o.json"],
+      ExitCode.usage,
+      "headroom: required option '--label <column>' not specified\n",
+    ],
+    [["frobnicate"], ExitCode.usage, "headroom: unknown command 'frobnicate'\n"],
+  ])("%j gives one line and exit code %i", async (argv, exitCode, line) => {
+    const c = capture();
+    expect(await run(argv, c.io)).toBe(exitCode);
+    expect(c.stderr()).toBe(line);
+  });
+
+  it("writes no output when the input is bad", async () => {
+    const data = join(dir, "bad.csv");
+    writeFileSync(data, "x,y\n1,a\n2,b\nNaN,a\n");
+    const out = join(dir, "never.json");
+    const c = capture();
+    expect(await run(["measure", data, "--label", "y", "--out", out], c.io)).toBe(ExitCode.data);
+    expect(c.stderr()).toBe(
+      `headroom: ${data}:4:1: 'NaN' in column 'x' is not a finite number; leave the cell empty for a missing value\n`,
+    );
+    expect(existsSync(out)).toBe(false);
+  });
+});

@@ -12,6 +12,16 @@ export interface Dataset {
   labels: Int32Array;
   /** Class names in order of first appearance sorted as strings (stable, like scikit-learn's). */
   classNames: string[];
+  /**
+   * Numeric target of each row, for a regression data set; then `labels` is empty and `classNames`
+   * is []. Absent for classification.
+   */
+  targets?: Float64Array;
+  /**
+   * For each feature column, its category names when the CSV column held text (the feature value is
+   * then the category's index, NaN when missing), or null for a numeric column. Absent: all numeric.
+   */
+  categories?: (string[] | null)[];
   /** Run (batch) index of each row into `groupNames`, when a group column was given. */
   groups?: Int32Array;
   groupNames?: string[];

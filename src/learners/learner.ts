@@ -14,6 +14,32 @@ export interface TrainingSet {
   labels: Int32Array;
   /** Number of classes in the whole data set (a training subsample may lack some). */
   classCount: number;
+  /**
+   * For each feature column, its category names when the column held text (the feature value is then
+   * the category's index, NaN when missing), or null for a numeric column. Absent: all numeric.
+   */
+  categories?: readonly (readonly string[] | null)[];
+}
+
+/** Training rows of a regression problem: like TrainingSet, with a numeric target per row. */
+export interface RegressionTrainingSet {
+  features: Float64Array;
+  rows: number;
+  columns: number;
+  targets: Float64Array;
+  categories?: readonly (readonly string[] | null)[];
+}
+
+export interface FittedRegressionModel {
+  /** Predicted target of each row. */
+  predictValues(features: Float64Array, rows: number): Float64Array;
+}
+
+/** A learner for numeric targets. */
+export interface RegressionLearner {
+  readonly name: string;
+  readonly task: "regression";
+  fit(training: RegressionTrainingSet, random: RandomStream): FittedRegressionModel;
 }
 
 export interface FittedModel {
@@ -27,6 +53,8 @@ export interface FittedModel {
 export interface Learner {
   /** Our name for the learner, as given to `--learner`. */
   readonly name: string;
+  /** Classification learners may say so; absent means classification. */
+  readonly task?: "classification";
   fit(training: TrainingSet, random: RandomStream): FittedModel;
 }
 

@@ -42,6 +42,35 @@ export const message = {
     `--sizes: training size ${size} is larger than the smallest training pool (${pool} rows after holding out a fold)`,
   sizeTooSmall: (size: number, classes: number) =>
     `--sizes: training size ${size} is too small to hold each of the ${classes} classes`,
+  sizeTooLargeRuns: (size: number, pool: number) =>
+    `--sizes: training size ${size} runs is more than the smallest training pool (${pool} runs after holding out a fold)`,
+  sizeTooSmallRegression: (size: number) =>
+    `--sizes: training size ${size} is too small to fit a numeric target (at least 2 rows)`,
+  tooFewRuns: (file: string, column: string, runs: number, needed: number) =>
+    `${file}: ${runs} runs in '${clip(column)}' are too few for a learning curve against runs (at least ${needed} needed, for 3 training sizes after holding out a fold)`,
+  badFolds: (text: string) => `--folds: '${clip(text)}' is neither a whole number of at least 2 nor 'loo'`,
+  foldsAboveRows: (folds: number, rows: number) =>
+    `--folds ${folds} is more than the ${rows} rows; use --folds loo for leave-one-out`,
+  byRunsNeedsGroup: () => `--by-runs needs --group naming the column that says which run each row came from`,
+  fewRunsFallback: (column: string, runs: number, splitter: string, byRuns: boolean) =>
+    `--group '${clip(column)}' has only ${runs} run${runs === 1 ? "" : "s"}: runs cannot be kept whole across training and test with fewer than 3, so rows are split by ${splitter}${byRuns ? " and training sizes count rows, not runs" : ""}; scores may be optimistic, since rows of one run can be in both training and test`,
+  foldsAboveRuns: (folds: number, runs: number, column: string) =>
+    `--folds ${folds} is more than the ${runs} runs in '${clip(column)}': leave-one-run-out (${runs} folds) is used instead`,
+  taskMismatch: (option: string, name: string, kind: string, task: string) =>
+    `${option}: '${clip(name)}' is for ${kind}, but the task is ${task} (set --task, or choose another ${option.slice(2)})`,
+  dataTaskMismatch: (task: string, dataTask: string) =>
+    `--task ${task}: the data set was read for ${dataTask}; read it with the same task`,
+  targetNotNumber: (file: string, line: number, column: number, name: string, text: string) =>
+    `${at(file, line, column)}: the target '${name}' is '${clip(text)}', not a finite number, as --task regression needs`,
+  numericLabelHint: (label: string) => ` (if '${clip(label)}' is a numeric target, pass --task regression)`,
+  mixedColumn: (file: string, line: number, column: number, columnName: string, text: string) =>
+    `${at(file, line, column)}: '${clip(text)}' in column '${columnName}' is not a number, though most of the column is numbers; fix the cell, leave it empty for a missing value, or --ignore the column`,
+  metricUndefinedEverywhere: (metric: string, reason: string) =>
+    `--metric ${metric} is undefined on every test fold (${reason}); choose another metric or more folds per class`,
+  metricUndefinedSome: (metric: string, skipped: number, total: number, reason: string) =>
+    `--metric ${metric} is undefined on ${skipped} of ${total} test folds (first: ${reason}); their fits are left out, and each point's repeatOfScore says which repeat each score is from`,
+  tuneWithoutGrid: (learner: string) =>
+    `--tune: learner '${learner}' has no tuning grid yet, so it was measured with its default settings`,
   badInteger: (option: string, text: string, min: number) =>
     `${option}: '${clip(text)}' is not a whole number of at least ${min}`,
   badNumber: (option: string, text: string) => `${option}: '${clip(text)}' is not a number`,
@@ -58,8 +87,31 @@ export const message = {
     `${file}: the forecast has no projection at training size${missing.length === 1 ? "" : "s"} ${missing.join(", ")}; rerun headroom forecast with --at ${needed.join(",")}`,
   outputExists: (file: string) => `${file}: refusing to overwrite an input file`,
   cannotWrite: (file: string, reason: string) => `${file}: cannot be written (${reason})`,
+  planYieldMissing: () =>
+    `missing: give samplesPerRun, or samplesPerRunRange [fewest, most] when the yield is uncertain`,
+  planYieldTwice: () => `give samplesPerRun or samplesPerRunRange, not both`,
+  planRangeOrder: (fewest: number, most: number) =>
+    `the fewest samples (${fewest}) is larger than the most (${most}); write [fewest, most]`,
+  planConsequenceMissing: (key: string) =>
+    `missing: the value of a point is derived from casesPerYear, costPerError and yearsInUse together (${key} is not given)`,
+  planValueTwice: () => `give valuePerPoint or casesPerYear, costPerError and yearsInUse, not both`,
+  planNoValue: () =>
+    `missing: give valuePerPoint, or casesPerYear, costPerError and yearsInUse, or a target score to reach`,
+  planCoxSnellTooLarge: (value: number, largest: number) =>
+    `${value} is not below ${largest.toFixed(4)}, the largest Cox–Snell R² a binary outcome with this prevalence allows`,
   unknownName: (option: string, name: string, known: string[]) =>
     `${option}: unknown name '${clip(name)}' (known: ${known.join(", ")})`,
+  checkpointExists: (file: string) =>
+    `${file}: a checkpoint of an interrupted run is here; add --resume to continue it, or delete the file to start over`,
+  checkpointMismatch: (file: string, changed: string[]) =>
+    `${file}: the checkpoint was written for other data or options (changed: ${changed.join(", ")}); delete it to start over`,
+  checkpointLine: (file: string, line: number) =>
+    `${at(file, line)}: the checkpoint line is malformed; delete the file to start over`,
+  interrupted: (done: number, total: number, checkpoint: string | undefined) =>
+    checkpoint === undefined
+      ? `interrupted after ${done} of ${total} fits`
+      : `interrupted after ${done} of ${total} fits (kept in ${checkpoint}); rerun the same command with --resume to continue`,
+  outputUnder: (file: string, parent: string) => `${file}: cannot be written (${parent} is a file, not a folder)`,
 } as const;
 
 function clip(text: string): string {

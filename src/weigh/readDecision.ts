@@ -5,12 +5,28 @@ import { readJsonFile } from "../io/files.js";
 import { validate } from "../io/validate.js";
 import { message } from "../messages.js";
 import type { DecisionFile } from "./decisionFile.js";
-import { planSchema } from "./plan.js";
+
+/**
+ * The plan as weighed: the keys the report reads. Its cross-key rules are not checked again (the
+ * echo carries samplesPerRun and valuePerPoint filled in beside the keys they came from).
+ */
+const decisionPlanSchema = z
+  .object({
+    samplesPerRun: z.number().positive(),
+    costPerRun: z.number().nonnegative(),
+    monthsPerRun: z.number().nonnegative(),
+    maxRuns: z.number().int().min(1),
+    valuePerPoint: z.number().nonnegative(),
+    targetConfidence: z.number().gt(0).lt(1),
+    target: z.number().optional(),
+    budget: z.number().nonnegative().optional(),
+  })
+  .loose();
 
 const decisionSchema = z.object({
   kind: z.literal("headroom-decision"),
   version: z.literal(1),
-  plan: planSchema,
+  plan: decisionPlanSchema,
   recommendedRuns: z.number().int().nonnegative(),
   runsToTarget: z.number().int().nonnegative().nullable(),
   table: z.array(z.object({ runs: z.number().int(), trainingSize: z.number(), expected: z.number() }).loose()).min(1),

@@ -1,107 +1,446 @@
 /**
  * Weighs further runs: for 0..maxRuns more runs, what the model is expected to score, how likely it
- * is to reach the target, what it costs, and the expected net value; then the recommendation.
+ * is to reach the target, what it costs, and the expected net value; then the recommendation, the
+ * stopping rule, the value of information, the sensitivity, the validation-set size, the clinical
+ * minimum and the cautions.
  *
  * Uncertainty comes from the forecast's draws: draw j of every projection is one plausible curve,
- * so a probability is the share of draws that meet a condition.
+ * so a probability is the share of draws that meet a condition and an interval a quantile of draws.
  */
+import { findMetric } from "../curve/metrics.js";
 import { DataError } from "../errors.js";
-import type { ForecastFile, Projection } from "../forecast/forecastFile.js";
+import type { ForecastFile } from "../forecast/forecastFile.js";
 import { message } from "../messages.js";
-import type { DecisionFile, DecisionRow } from "./decisionFile.js";
-import type { Plan } from "./plan.js";
+import { RandomStream } from "../random.js";
+import { clinicalSampleSize, criterionInWords } from "./clinicalSampleSize.js";
+import type {
+  ClinicalFloor,
+  DecisionFile,
+  DecisionRow,
+  PilotInformation,
+  ValidationSize,
+  ValueOfInformation,
+} from "./decisionFile.js";
+import { weighTable, type TableContext, type TableResult } from "./decisionTable.js";
+import { costOfRuns, resolvePlan, type Plan, type ResolvedPlan } from "./plan.js";
+import { ProjectionGrid } from "./projectionGrid.js";
+import { sensitivityOfRecommendation } from "./sensitivity.js";
+import { heldOutNeededExact, heldOutNeededWilson } from "./validationSize.js";
+import { sampleInformationValue } from "./valueOfInformation.js";
+import { scaledYield, sizesToProject } from "./yields.js";
+
+export interface WeighOptions {
+  /**
+   * What the model's decisions touch (the study's `context.domain`), when the plan has no `domain`.
+   */
+  domain?: string;
+  /**
+   * Preposterior simulations per pilot size for the value of information.
+   * @default 4000
+   */
+  simulations?: number;
+}
 
 /** Samples behind today's model when the plan does not say: the curve's rows, else its largest size. */
 export function currentSamples(plan: Plan, forecast: ForecastFile): number {
   return plan.currentSamples ?? forecast.rows ?? forecast.largestMeasuredSize;
 }
 
-/** Training sizes after 0..maxRuns further runs. */
+/** Training sizes after 0..maxRuns further runs at the expected yield. */
 export function plannedSizes(plan: Plan, forecast: ForecastFile): number[] {
   const today = currentSamples(plan, forecast);
-  return Array.from({ length: plan.maxRuns + 1 }, (_, runs) => today + runs * plan.samplesPerRun);
+  const resolved = resolvePlan(plan);
+  return Array.from({ length: plan.maxRuns + 1 }, (_, runs) => today + runs * resolved.expectedYield);
 }
 
 /**
- * Builds the decision table and recommendation.
+ * Training sizes a forecast must project to for `weighRuns`: today + k × (fewest, expected, most)
+ * samples per run, k = 0..maxRuns (`required`), and with them the sizes the ±25% yield sensitivity
+ * reads (`all`, what `headroom study` forecasts at).
+ */
+export function sizesForForecast(plan: Plan, today: number): { required: number[]; all: number[] } {
+  const resolved = resolvePlan(plan);
+  const required = sizesToProject(resolved.yieldModel, today, plan.maxRuns);
+  const all = new Set(required);
+  for (const factor of [0.75, 1.25]) {
+    for (const size of sizesToProject(scaledYield(resolved.yieldModel, factor), today, plan.maxRuns)) all.add(size);
+  }
+  return { required, all: [...all].sort((a, b) => a - b) };
+}
+
+/** Preposterior simulations per pilot size. */
+const defaultSimulations = 4000;
+/** Pilots weighed for the value of information: 1..this many runs. */
+const largestPilot = 12;
+/** Forecast draws used as the prior of the value of information (a systematic subsample beyond). */
+const largestPriorDraws = 1000;
+/** Stream path of the value-of-information simulations: pilot k uses (seed, path, k). */
+const informationStreamPath = 52;
+/** One-sided confidence of the validation-set lower bound. */
+const validationConfidence = 0.95;
+
+/**
+ * Builds the decision.
+ *
+ * Phases: resolve the plan's defaults; check the forecast holds the sizes the plan reaches; the
+ * table and its rules (decisionTable.ts); the clinical minimum; the value of information of pilots;
+ * the sensitivity of the recommendation; the validation-set size; the reasons and cautions.
+ *
  * @param forecastFileName for messages
  * @throws DataError naming the training sizes the forecast lacks
  */
-export function weighRuns(forecast: ForecastFile, plan: Plan, forecastFileName = "forecast"): DecisionFile {
-  const sizes = plannedSizes(plan, forecast);
-  const bySize = new Map(forecast.projections.map((p) => [p.trainingSize, p]));
-  const missing = sizes.filter((size) => !bySize.has(size));
-  if (missing.length > 0) throw new DataError(message.missingProjections(forecastFileName, missing, sizes));
-  const projections = sizes.map((size) => bySize.get(size) as Projection);
+export function weighRuns(
+  forecast: ForecastFile,
+  plan: Plan,
+  forecastFileName = "forecast",
+  options: WeighOptions = {},
+): DecisionFile {
+  // Resolve and check.
+  const resolved = resolvePlan(plan);
+  const today = currentSamples(plan, forecast);
+  const grid = new ProjectionGrid(forecast);
+  const required = sizesToProject(resolved.yieldModel, today, plan.maxRuns);
+  const projected = new Set(grid.sizes);
+  const missing = required.filter((size) => !projected.has(size));
+  if (missing.length > 0) throw new DataError(message.missingProjections(forecastFileName, missing, required));
+
   // Orientation: +1 when a higher score is better, so that `sign * difference` is always a gain.
   const sign = forecast.higherIsBetter ? 1 : -1;
-  const today = projections[0];
+  const clinical = plan.clinical === undefined ? undefined : clinicalSampleSize(plan.clinical);
+  const context: TableContext = {
+    grid,
+    today,
+    sign,
+    level: forecast.level,
+    metricRange: forecast.metricRange ?? findMetric(forecast.metric)?.range,
+    seed: forecast.seed,
+    clinicalMinimum: clinical?.participants,
+  };
 
-  const table: DecisionRow[] = projections.map((p, runs) => {
-    const cost = runs * plan.costPerRun;
-    const months = runs * plan.monthsPerRun;
-    const gain = sign * (p.expected - today.expected);
-    return {
-      runs,
-      trainingSize: p.trainingSize,
-      expected: p.expected,
-      lower: p.lower,
-      upper: p.upper,
-      probabilityOfTarget: plan.target === undefined ? null : shareReaching(p, plan.target, sign),
-      cost,
-      months,
-      expectedNetValue: plan.valuePerPoint * 100 * gain - cost,
-      affordable: plan.budget === undefined || cost <= plan.budget,
-    };
-  });
+  // The table and its rules.
+  const result = weighTable(resolved, context);
+  const { rows } = result;
+  const clinicalFloor: ClinicalFloor | null =
+    clinical === undefined
+      ? null
+      : { ...clinical, runsToMinimum: rows.find((row) => row.trainingSize >= clinical.participants)?.runs ?? null };
 
-  let recommended = table[0];
-  for (const row of table) {
-    if (row.affordable && row.expectedNetValue > recommended.expectedNetValue) recommended = row;
-  }
-  const reaching =
-    plan.target === undefined
-      ? undefined
-      : table.find((row) => (row.probabilityOfTarget as number) >= plan.targetConfidence);
+  // Value of information, sensitivity, validation size.
+  const valueOfInformation = pilotInformation(resolved, context, options.simulations ?? defaultSimulations, forecast);
+  const sensitivity = sensitivityOfRecommendation(resolved, context, forecast.parameters?.a);
+  const validation = validationSize(forecast, plan, rows[result.recommendedRuns], context.metricRange);
 
+  const domain = plan.domain ?? options.domain;
   return {
     kind: "headroom-decision",
     version: 1,
     metric: forecast.metric,
     higherIsBetter: forecast.higherIsBetter,
     level: forecast.level,
-    plan,
-    recommendedRuns: recommended.runs,
-    runsToTarget: reaching ? reaching.runs : null,
+    plan: { ...plan, samplesPerRun: resolved.collectedPerRun, valuePerPoint: resolved.valuePerPoint },
+    recommendedRuns: result.recommendedRuns,
+    runsToTarget: result.runsToTarget,
+    stopAfterRuns: result.stopAfterRuns,
     reasons: {
-      recommendedRuns: recommendationReason(recommended, table, plan),
-      runsToTarget: plan.target === undefined ? null : targetReason(reaching, plan),
+      recommendedRuns: recommendationReason(result, resolved, clinicalFloor),
+      runsToTarget: plan.target === undefined ? null : targetReason(result, plan),
+      stopAfterRuns: stopReason(result, resolved),
+      valueOfInformation: informationReason(valueOfInformation),
+      validation: validationReason(validation),
+      clinical: clinicalReason(clinicalFloor, result),
     },
-    table,
+    table: rows,
+    valueBasis: resolved.valueBasis,
+    expectedYieldPerRun: resolved.expectedYield,
+    valueOfInformation,
+    sensitivity,
+    validation,
+    clinical: clinicalFloor,
+    cautions: cautions(forecast, plan, domain, result, clinicalFloor, context.metricRange),
   };
 }
 
-function shareReaching(p: Projection, target: number, sign: number): number {
-  if (p.draws.length === 0) return sign * (p.expected - target) >= 0 ? 1 : 0;
-  let hits = 0;
-  for (const value of p.draws) if (sign * (value - target) >= 0) hits++;
-  return hits / p.draws.length;
-}
-
-function recommendationReason(row: DecisionRow, table: DecisionRow[], plan: Plan): string {
-  if (row.runs === 0) {
-    const next = table[1];
-    return next && !next.affordable
-      ? "No further run fits within the budget."
-      : "No number of further runs is expected to add more value than it costs.";
+/**
+ * Value of information of a pilot: the go/no-go decision on the rest of a programme.
+ *
+ * The programme is R further runs, the most that fit the budget and the deadline (at most maxRuns).
+ * After a pilot of its first k runs (k = 1..min(R − 1, 12)) one decides whether to go on with the
+ * remaining R − k runs (go) or to stop (no-go). Go pays U = valuePerPoint × 100 × sign ×
+ * (s(N_R) − s(N_k)) − (cost(R) − cost(k)) over no-go. The pilot's measurement is the
+ * cross-validated score at N_k, modelled as s(N_k) plus normal noise of sd τ_k. The EVSI of the pilot
+ * is the value of deciding after seeing that score rather than now (valueOfInformation.ts), with the
+ * forecast's draws as the prior, sizes at the expected yield.
+ *
+ * τ_k is the binomial standard error √(s(1 − s)/N_k) of a score that is a share of N_k samples each
+ * scored once, for metrics between 0 and 1; for other metrics the spread of single fits at the
+ * largest measured size, shrunk by √(largest measured size / N_k) — a cautious (large) noise.
+ *
+ * The staged plan's value is E[net value of k runs] + max(E[U], 0) + EVSI; committing now to all R
+ * runs is worth E[net value of R runs] (both means over draws). A forecast with more than 1,000 draws
+ * lends every stride-th of them to the prior, so the work stays near 1,000 × simulations per pilot.
+ *
+ * @returns null when the plan puts no value on a point of score, fewer than 2 runs are affordable or
+ *   the forecast has fewer than 2 draws
+ */
+function pilotInformation(
+  resolved: ResolvedPlan,
+  context: TableContext,
+  simulations: number,
+  forecast: ForecastFile,
+): ValueOfInformation | null {
+  if (resolved.valueBasis === "target") return null;
+  const { grid, sign, today } = context;
+  const value = resolved.valuePerPoint * 100;
+  // Affordability depends only on cost and months, which rise with runs.
+  let programme = 0;
+  for (let runs = 1; runs <= resolved.plan.maxRuns; runs++) {
+    const cost = costOfRuns(resolved, runs);
+    const months = Math.ceil(runs / resolved.parallelRuns) * resolved.plan.monthsPerRun;
+    const { budget, deadlineMonths } = resolved.plan;
+    if ((budget !== undefined && cost > budget) || (deadlineMonths !== undefined && months > deadlineMonths)) break;
+    programme = runs;
   }
-  const within = plan.budget === undefined ? `up to ${plan.maxRuns} runs` : "the runs the budget allows";
-  return `${row.runs} further run${row.runs === 1 ? " gives" : "s give"} the highest expected net value (${Math.round(row.expectedNetValue)}) among ${within}.`;
+  if (programme < 2 || grid.drawCount < 2) return null;
+  // Every stride-th draw, at most `largestPriorDraws` of them: the work grows with draws × simulations.
+  const stride = Math.ceil(grid.drawCount / largestPriorDraws);
+  const drawIndices = Array.from({ length: Math.ceil(grid.drawCount / stride) }, (_, i) => i * stride);
+  const sizeAfter = (runs: number) => today + runs * resolved.expectedYield;
+  const scoresAt = (size: number) => drawIndices.map((j) => grid.drawAt(size, j));
+  const todayScores = scoresAt(today);
+  const finalScores = scoresAt(sizeAfter(programme));
+  const mean = (values: readonly number[]) => values.reduce((a, b) => a + b, 0) / values.length;
+  const netOf = (scores: number[], runs: number) =>
+    scores.map((score, j) => value * sign * (score - todayScores[j]) - costOfRuns(resolved, runs));
+  const commitValue = mean(netOf(finalScores, programme));
+  const isFraction = context.metricRange !== undefined && context.metricRange[0] === 0 && context.metricRange[1] === 1;
+  const last = forecast.measured[forecast.measured.length - 1];
+
+  const pilots: PilotInformation[] = [];
+  for (let runs = 1; runs <= Math.min(programme - 1, largestPilot); runs++) {
+    const size = sizeAfter(runs);
+    const pilotScores = scoresAt(size);
+    const expectedScore = grid.expectedAt(size);
+    const observationSd = isFraction
+      ? Math.sqrt(Math.max(expectedScore * (1 - expectedScore), 1e-6) / size)
+      : Math.max(last?.standardDeviation ?? 0, 1e-9) * Math.sqrt((last?.trainingSize ?? size) / size);
+    const rest = costOfRuns(resolved, programme) - costOfRuns(resolved, runs);
+    const payoff = finalScores.map((score, j) => value * sign * (score - pilotScores[j]) - rest);
+    const estimate = sampleInformationValue(
+      payoff,
+      pilotScores,
+      observationSd,
+      new RandomStream(context.seed, informationStreamPath, runs),
+      simulations,
+    );
+    pilots.push({
+      runs,
+      observationSd,
+      evsi: estimate.evsi,
+      standardError: estimate.standardError,
+      goOnNow: estimate.goNow,
+      probabilityDecisionChanges: estimate.probabilityDecisionChanges,
+      stagedValue: mean(netOf(pilotScores, runs)) + estimate.valueNow + estimate.evsi,
+    });
+  }
+  return {
+    decision:
+      `After a pilot of the first k of ${programme} affordable further runs, go on with the rest or stop; ` +
+      `the pilot's cross-validated score shows which curve is nearer the truth.`,
+    programmeRuns: programme,
+    commitValue,
+    simulations,
+    pilots,
+  };
 }
 
-function targetReason(row: DecisionRow | undefined, plan: Plan): string {
+/**
+ * Held-out samples needed to support the target with the recommended model (validationSize.ts).
+ * @returns null without a target, or for a metric that is not a higher-is-better share between 0 and 1
+ */
+function validationSize(
+  forecast: ForecastFile,
+  plan: Plan,
+  row: DecisionRow,
+  metricRange: [number, number] | undefined,
+): ValidationSize | null {
+  if (plan.target === undefined || !forecast.higherIsBetter) return null;
+  if (metricRange === undefined || metricRange[0] !== 0 || metricRange[1] !== 1) return null;
+  return {
+    target: plan.target,
+    expectedScore: row.expected,
+    runs: row.runs,
+    confidence: validationConfidence,
+    heldOutNeeded: heldOutNeededWilson(row.expected, plan.target, validationConfidence),
+    heldOutNeededExact: heldOutNeededExact(row.expected, plan.target, validationConfidence),
+    context:
+      "Beleites et al. (Analytica Chimica Acta 760, 2013) found that 75 to 100 test samples are needed " +
+      "to test a good classifier with useful precision; a score measured on fewer is too uncertain to " +
+      "support a claim.",
+  };
+}
+
+function plural(count: number, word: string): string {
+  return `${count} ${word}${count === 1 ? "" : "s"}`;
+}
+
+function money(value: number): string {
+  return Math.round(value).toLocaleString("en-US");
+}
+
+function limitsInWords(plan: Plan): string {
+  if (plan.budget !== undefined && plan.deadlineMonths !== undefined) return "the budget and the deadline";
+  if (plan.budget !== undefined) return "the budget";
+  if (plan.deadlineMonths !== undefined) return "the deadline";
+  return "";
+}
+
+function recommendationReason(result: TableResult, resolved: ResolvedPlan, clinical: ClinicalFloor | null): string {
+  const { plan } = resolved;
+  const row = result.rows[result.recommendedRuns];
+  const next = result.rows[1];
+  const limits = limitsInWords(plan);
+  const floor =
+    clinical !== null && result.recommendationFollowsClinicalMinimum
+      ? ` among the runs that reach the minimum of ${clinical.participants} participants (Riley et al.)`
+      : "";
+  if (resolved.valueBasis === "target") {
+    const confidence = `${Math.round(plan.targetConfidence * 100)}%`;
+    if (row.runs === 0 && (row.probabilityOfTarget as number) >= plan.targetConfidence) {
+      return `The model already reaches the target with at least ${confidence} probability.`;
+    }
+    if ((row.probabilityOfTarget as number) >= plan.targetConfidence) {
+      return `${plural(row.runs, "further run")} ${row.runs === 1 ? "is" : "are"} the fewest${limits ? ` within ${limits}` : ""} that reach the target with at least ${confidence} probability${floor}.`;
+    }
+    const minimum =
+      clinical !== null && row.runs > 0
+        ? `; ${plural(row.runs, "further run")} reach the minimum of ${clinical.participants} participants (Riley et al.)`
+        : "";
+    return `No number of further runs${limits ? ` within ${limits}` : ""} reaches the target with ${confidence} probability${minimum}.`;
+  }
+  if (row.runs === 0) {
+    if (next && !next.affordable) {
+      return `No further run fits within ${limits || "the budget"}.`;
+    }
+    return "No number of further runs is expected to add more value than it costs.";
+  }
+  const within = limits
+    ? `the runs ${limits} allow${limits.includes(" and ") ? "" : "s"}`
+    : `up to ${plan.maxRuns} runs`;
+  return `${row.runs} further run${row.runs === 1 ? " gives" : "s give"} the highest expected net value (${money(row.expectedNetValue)}) among ${within}${floor}.`;
+}
+
+function targetReason(result: TableResult, plan: Plan): string {
   const confidence = `${Math.round(plan.targetConfidence * 100)}%`;
+  const row = result.runsToTarget === null ? undefined : result.rows[result.runsToTarget];
   return row === undefined
     ? `Within ${plan.maxRuns} further runs the target is not reached with ${confidence} probability.`
     : `${row.runs} further run${row.runs === 1 ? "" : "s"} reach the target with at least ${confidence} probability (${Math.round((row.probabilityOfTarget as number) * 100)}%).`;
+}
+
+function stopReason(result: TableResult, resolved: ResolvedPlan): string | null {
+  const runs = result.stopAfterRuns;
+  if (runs === null) return null;
+  const next = result.rows[runs + 1];
+  const stop = runs === 0 ? "Stop now" : `Stop after ${plural(runs, "run")}`;
+  const ordinal = `run ${runs + 1}`;
+  switch (result.stopBecause) {
+    case "lastRun":
+      return `Every run up to the plan's ${resolved.plan.maxRuns} is expected to be worth more than it costs.`;
+    case "overBudget":
+      return `${stop}: ${ordinal} would take the cost past the budget.`;
+    case "pastDeadline":
+      return `${stop}: ${ordinal} would end after the deadline.`;
+    default: {
+      const worth = resolved.valuePerPoint * 100 * (next.marginalGain as number);
+      const cost = next.cost - result.rows[runs].cost;
+      return `${stop}: ${ordinal} is expected to add a gain worth ${money(worth)}, less than the ${money(cost)} it costs.`;
+    }
+  }
+}
+
+function informationReason(information: ValueOfInformation | null): string | null {
+  if (information === null || information.pilots.length === 0) return null;
+  const best = information.pilots.reduce((a, b) => (b.evsi > a.evsi ? b : a));
+  const rest = information.programmeRuns - best.runs;
+  if (best.evsi <= 2 * best.standardError) {
+    const largest = information.pilots[information.pilots.length - 1].runs;
+    const pilots = largest === 1 ? "a pilot of 1 run" : `a pilot of 1 to ${largest} runs`;
+    return `Measuring the curve again after ${pilots} is not expected to change the decision on the rest of the ${information.programmeRuns} affordable runs.`;
+  }
+  return (
+    `Measuring the curve again after ${plural(best.runs, "run")} before paying for the other ${rest} is worth ` +
+    `about ${money(best.evsi)} to that decision (expected value of sample information).`
+  );
+}
+
+function validationReason(validation: ValidationSize | null): string | null {
+  if (validation === null) return null;
+  const percent = (v: number) => `${(v * 100).toFixed(1)}%`;
+  if (validation.expectedScore <= validation.target) {
+    return `The expected score of ${percent(validation.expectedScore)} does not exceed the target of ${percent(validation.target)}, so no held-out set can be expected to support the target.`;
+  }
+  if (validation.heldOutNeeded === null) {
+    return `The expected score of ${percent(validation.expectedScore)} is so close to the target of ${percent(validation.target)} that more than ten million held-out samples would be needed to support it.`;
+  }
+  const exact =
+    validation.heldOutNeededExact === null
+      ? ""
+      : ` (${validation.heldOutNeededExact} by the exact Clopper–Pearson bound)`;
+  return (
+    `Supporting the target of ${percent(validation.target)} with an expected score of ` +
+    `${percent(validation.expectedScore)} needs about ${validation.heldOutNeeded} held-out samples${exact}, ` +
+    `for a one-sided 95% lower bound above the target.`
+  );
+}
+
+function clinicalReason(clinical: ClinicalFloor | null, result: TableResult): string | null {
+  if (clinical === null) return null;
+  const where =
+    clinical.runsToMinimum === null
+      ? "which no number of runs in the plan reaches"
+      : clinical.runsToMinimum === 0
+        ? "which today's data already reach"
+        : `reached after ${plural(clinical.runsToMinimum, "further run")}`;
+  const unaffordable = result.clinicalMinimumUnaffordable ? ", but not within the budget and deadline" : "";
+  return (
+    `A clinical prediction model of a binary outcome needs at least ${clinical.participants} participants ` +
+    `(${clinical.events} events, ${clinical.eventsPerParameter.toFixed(1)} per predictor parameter; Riley et al. 2019), ` +
+    `set by ${criterionInWords(clinical.binding)}, ${where}${unaffordable}.`
+  );
+}
+
+/** Does the domain touch decisions about people? */
+function aboutPeople(domain: string | undefined): boolean {
+  return domain !== undefined && /clinic|health|medic|hospital|patient|care|safety|public/i.test(domain);
+}
+
+function cautions(
+  forecast: ForecastFile,
+  plan: Plan,
+  domain: string | undefined,
+  result: TableResult,
+  clinical: ClinicalFloor | null,
+  metricRange: [number, number] | undefined,
+): string[] {
+  const list: string[] = [];
+  if (aboutPeople(domain) || plan.clinical !== undefined) {
+    list.push(
+      "This model informs decisions about people. Projections are not validation: independent validation, " +
+        "regulatory requirements and licensed professional practice decide whether and how it may be used.",
+    );
+  }
+  if (clinical !== null && result.clinicalMinimumUnaffordable) {
+    list.push(
+      `No affordable number of runs reaches the minimum of ${clinical.participants} participants for a clinical ` +
+        `prediction model; a model developed on fewer is likely to be overfitted.`,
+    );
+  }
+  const isFraction = metricRange !== undefined && metricRange[0] === 0 && metricRange[1] === 1;
+  if (resolvePlan(plan).valueBasis === "consequences" && !isFraction) {
+    list.push(
+      `The value of a point was derived from errors avoided, but ${forecast.metric} is not a share of cases ` +
+        `between 0 and 1; check that a 0.01 change of it avoids 1% of the errors.`,
+    );
+  }
+  return list;
 }

@@ -6,12 +6,14 @@ import { basename } from "node:path";
 import { readCsv } from "./data/csv.js";
 import { tableToDataset, type ColumnChoice } from "./data/tableToDataset.js";
 import type { CurveFile } from "./curve/curveFile.js";
-import { measureCurve, type MeasureOptions } from "./curve/measure.js";
+import { measureCurve, resolveMeasureOptions, type MeasureOptions } from "./curve/measure.js";
 import { sha256OfFile } from "./io/files.js";
 
 /** Reads a CSV, builds the data set and measures its learning curve. */
 export async function measureFile(file: string, options: ColumnChoice & MeasureOptions): Promise<CurveFile> {
-  const dataset = tableToDataset(readCsv(file), options);
+  // The task (classes or a numeric target) decides how the label column is read.
+  const { task } = resolveMeasureOptions(options);
+  const dataset = tableToDataset(readCsv(file), { ...options, task });
   return measureCurve(dataset, file, options, {
     label: options.label,
     ...(options.group === undefined ? {} : { group: options.group }),

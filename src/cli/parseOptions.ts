@@ -14,6 +14,16 @@ export function optionalInteger(option: string, text: string | undefined, min: n
   return value;
 }
 
+/** Folds: a whole number of at least 2, or "loo" (leave-one-out); undefined when not given. */
+export function optionalFolds(text: string | undefined): number | "loo" | undefined {
+  if (text === undefined) return undefined;
+  if (text.trim().toLowerCase() === "loo") return "loo";
+  const value = Number(text.trim());
+  if (!/^[+-]?\d+$/.test(text.trim()) || !Number.isSafeInteger(value) || value < 2)
+    throw new UsageError(message.badFolds(text));
+  return value;
+}
+
 /** A probability strictly between 0 and 1. */
 export function optionalProbability(option: string, text: string | undefined): number | undefined {
   if (text === undefined) return undefined;

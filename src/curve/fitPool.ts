@@ -9,14 +9,23 @@
  */
 import { Worker } from "node:worker_threads";
 import type { Dataset } from "../data/dataset.js";
+import { InterruptedError } from "../errors.js";
+import { message as messages } from "../messages.js";
 import { runFitTask, type FitPlan, type FitTask } from "./fitTask.js";
 import type { FromWorker, ToWorker } from "./fitWorker.js";
+import { shareDataset } from "./sharedDataset.js";
 
 export interface PoolOptions {
   /** Worker threads; 1 runs everything on the main thread. */
   workers: number;
   /** Called after each finished task. */
   onTaskDone?: (done: number, total: number) => void;
+  /** Scores of tasks finished in an earlier run (read from a checkpoint), by task index: not run again. */
+  completed?: ReadonlyMap<number, number[]>;
+  /** Called with each newly finished task's scores, before `onTaskDone` (e.g. to checkpoint them). */
+  onTaskResult?: (index: number, scores: number[]) => void;
+  /** Aborting it stops the run between tasks: the promise rejects with an InterruptedError. */
+  signal?: AbortSignal;
 }
 
 export async function runFitTasks(
@@ -26,42 +35,65 @@ export async function runFitTasks(
   options: PoolOptions,
 ): Promise<number[][]> {
   const results: number[][] = new Array(tasks.length);
-  const workers = Math.min(options.workers, tasks.length);
+  const pending = tasks.filter((task) => {
+    const scores = options.completed?.get(task.index);
+    if (scores !== undefined) results[task.index] = scores;
+    return scores === undefined;
+  });
+  let done = tasks.length - pending.length;
+  const finish = (index: number, scores: number[]) => {
+    results[index] = scores;
+    options.onTaskResult?.(index, scores);
+    done++;
+    options.onTaskDone?.(done, tasks.length);
+  };
+  const interrupted = () => new InterruptedError(messages.interrupted(done, tasks.length, undefined));
+  const workers = Math.min(options.workers, pending.length);
   if (workers <= 1) {
-    tasks.forEach((task, i) => {
-      results[task.index] = runFitTask(data, plan, task);
-      options.onTaskDone?.(i + 1, tasks.length);
-    });
+    for (const task of pending) {
+      // Let a Ctrl-C handler run between tasks.
+      if (options.signal) await new Promise((resolve) => setImmediate(resolve));
+      if (options.signal?.aborted) throw interrupted();
+      finish(task.index, runFitTask(data, plan, task));
+    }
     return results;
   }
   // From TypeScript source, a small .mjs shim registers tsx in the worker before loading it.
   const workerUrl = import.meta.url.endsWith(".ts")
     ? new URL("./fitWorkerFromSource.mjs", import.meta.url)
     : new URL("./fitWorker.js", import.meta.url);
+  if (options.signal?.aborted) throw interrupted();
+  // Shared memory: workers read one copy of the data set instead of a copy each.
+  const sharedData = shareDataset(data);
   const pool = Array.from({ length: workers }, () => new Worker(workerUrl));
   let next = 0;
-  let done = 0;
+  let onAbort: (() => void) | undefined;
   try {
     await new Promise<void>((resolve, reject) => {
+      onAbort = () => reject(interrupted());
+      options.signal?.addEventListener("abort", onAbort, { once: true });
       const feed = (worker: Worker) => {
-        if (next < tasks.length) worker.postMessage({ kind: "task", task: tasks[next++] } satisfies ToWorker);
+        if (next < pending.length) worker.postMessage({ kind: "task", task: pending[next++] } satisfies ToWorker);
       };
       for (const worker of pool) {
         worker.on("message", (message: FromWorker) => {
           if (message.kind === "failed")
             return reject(new Error(`a fit failed in a worker thread: ${message.message}`));
-          results[message.index] = message.scores;
-          done++;
-          options.onTaskDone?.(done, tasks.length);
+          try {
+            finish(message.index, message.scores);
+          } catch (error) {
+            return reject(error);
+          }
           if (done === tasks.length) resolve();
           else feed(worker);
         });
         worker.on("error", reject);
-        worker.postMessage({ kind: "setup", data, plan } satisfies ToWorker);
+        worker.postMessage({ kind: "setup", data: sharedData, plan } satisfies ToWorker);
         feed(worker);
       }
     });
   } finally {
+    if (onAbort) options.signal?.removeEventListener("abort", onAbort);
     await Promise.all(pool.map((worker) => worker.terminate()));
   }
   return results;

@@ -2,71 +2,140 @@
  * The curve loop: measures how a learner's held-out score grows with its training size.
  *
  * Phases, in order:
- * 1. resolve options (defaults live in `resolveMeasureOptions` only);
- * 2. check the design against the data (class sizes, training sizes);
- * 3. fix the folds once per repeat (stratified k-fold) and order each training pool so that its
- *    prefixes are nested stratified subsamples;
- * 4. run one fit task per (repeat, fold), on the main thread or worker threads;
- * 5. assemble curve.json, with scores in repeat-major order.
+ * 1. resolve options (defaults live in `resolveMeasureOptions` only), the task (classes or a numeric
+ *    target) included;
+ * 2. choose the split design (`chooseDesign`: stratified or plain k-fold, leave-one-out, grouped
+ *    k-fold or leave-one-run-out) and check it against the data (class sizes);
+ * 3. fix the folds once per repeat;
+ * 4. turn the training sizes into absolute sizes (rows, or whole runs with `byRuns`) and check each
+ *    can be drawn from every fold's training pool;
+ * 5. order each training pool so that its prefixes are nested subsamples (stratified for classes,
+ *    whole runs with `byRuns`), leaving out the folds on which the metric is undefined;
+ * 6. run one fit task per (repeat, fold), on the main thread or worker threads;
+ * 7. assemble curve.json, with scores in repeat-major order.
  */
 import type { Dataset } from "../data/dataset.js";
 import { DataError, UsageError } from "../errors.js";
-import { createLearner, learnerNames } from "../learners/registry.js";
+import { learnerNames, regressionLearnerNames } from "../learners/registry.js";
 import { message } from "../messages.js";
 import { RandomStream } from "../random.js";
-import { nestedStratifiedOrder } from "../splitters/nestedSubsamples.js";
-import { stratifiedKFold } from "../splitters/stratifiedKFold.js";
+import { toolVersion } from "../version.js";
+import { chooseDesign, type SplitDesign } from "../splitters/design.js";
+import { nestedRandomOrder, nestedRunOrder, nestedStratifiedOrder } from "../splitters/nestedSubsamples.js";
+import type { Split } from "../splitters/split.js";
+import { datasetDigest, runWithCheckpoint, type CheckpointOptions } from "./checkpoint.js";
 import type { CurveFile } from "./curveFile.js";
-import { StreamPurpose, type FitTask } from "./fitTask.js";
+import {
+  StreamPurpose,
+  createAnyLearner,
+  fitResultLength,
+  innerFolds,
+  metricUndefinedOn,
+  tuningGridOf,
+  type FitPlan,
+  type FitTask,
+} from "./fitTask.js";
 import { runFitTasks } from "./fitPool.js";
-import { findMetric, metrics } from "./metrics.js";
-import { geometricSizes, smallestSensibleSize } from "./sizes.js";
+import { findMetric, metricRangeFor, metrics } from "./metrics.js";
+import { geometricSizes, smallestSensibleRegressionSize, smallestSensibleSize } from "./sizes.js";
 
 export interface MeasureOptions {
-  /** Cross-validation folds. @default 5 */
-  folds?: number;
+  /**
+   * Cross-validation folds, or "loo" for leave-one-out (leave-one-run-out with a run column); folds
+   * equal to the rows also mean leave-one-out. @default 5
+   */
+  folds?: number | "loo";
   /** Repeats of the whole k-fold with fresh folds. @default 10 */
   repeats?: number;
-  /** Training sizes in rows. @default 8 geometric sizes from the smallest sensible size to the whole pool */
+  /**
+   * Training sizes in rows (in runs with `byRuns`).
+   * @default 8 geometric sizes from the smallest sensible size to the whole pool (all run counts from 1
+   *   when there are at most 8)
+   */
   trainingSizes?: number[];
   /** @default 0 */
   seed?: number;
-  /** @default "logistic" */
+  /**
+   * Whether the label is a class or a numeric target.
+   * @default the task of the learner or metric given, else the data set's, else "classification"
+   */
+  task?: "classification" | "regression";
+  /** @default "logistic" for classification, "ridge" for regression */
   learner?: string;
-  /** @default "accuracy" */
+  /** @default "accuracy" for classification, "rmse" for regression */
   metric?: string;
+  /**
+   * Tune the learner's settings at every training size by an inner 3-fold cross-validation over its
+   * tuning grid (a no-op, with a warning, for a learner without one). @default false
+   */
+  tune?: boolean;
+  /** Measure against whole runs: training sets of whole runs, sizes in runs (needs a run column). @default false */
+  byRuns?: boolean;
   /** Worker threads. @default 1 */
   workers?: number;
   /** Called after each (repeat, fold) task. */
   onProgress?: (done: number, total: number) => void;
+  /**
+   * Keep each finished (repeat, fold) task in this checkpoint file, and continue from it when
+   * `resume` is set (see checkpoint.ts). The caller removes it once the curve is written.
+   * @default no checkpoint
+   */
+  checkpoint?: CheckpointOptions;
+  /** Aborting it stops the measurement between fits with an InterruptedError. */
+  signal?: AbortSignal;
 }
 
-export type ResolvedMeasureOptions = Required<Omit<MeasureOptions, "trainingSizes" | "onProgress">> &
+export type ResolvedMeasureOptions = Required<
+  Omit<MeasureOptions, "trainingSizes" | "onProgress" | "checkpoint" | "signal">
+> &
   Pick<MeasureOptions, "trainingSizes" | "onProgress">;
 
-/** Fills in defaults and checks option values. @throws UsageError naming the option. */
-export function resolveMeasureOptions(options: MeasureOptions = {}): ResolvedMeasureOptions {
+/**
+ * Fills in defaults and checks option values. The task comes from `task`, else from the learner or
+ * the metric given (ridge and rmse imply regression), else from `dataTask`, else classification; the
+ * default learner and metric then follow the task.
+ * @throws UsageError naming the option.
+ */
+export function resolveMeasureOptions(
+  options: MeasureOptions = {},
+  dataTask?: "classification" | "regression",
+): ResolvedMeasureOptions {
+  const learnerTask = options.learner === undefined ? undefined : taskOfLearner(options.learner);
+  const metricTask = options.metric === undefined ? undefined : findMetric(options.metric)?.task;
+  const task = options.task ?? learnerTask ?? metricTask ?? dataTask ?? "classification";
+  if (task !== "classification" && task !== "regression")
+    throw new UsageError(message.unknownName("--task", String(task), ["classification", "regression"]));
+  const regression = task === "regression";
   const resolved = {
     folds: options.folds ?? 5,
     repeats: options.repeats ?? 10,
     trainingSizes: options.trainingSizes,
     seed: options.seed ?? 0,
-    learner: options.learner ?? "logistic",
-    metric: options.metric ?? "accuracy",
+    task,
+    learner: options.learner ?? (regression ? "ridge" : "logistic"),
+    metric: options.metric ?? (regression ? "rmse" : "accuracy"),
+    tune: options.tune ?? false,
+    byRuns: options.byRuns ?? false,
     workers: options.workers ?? 1,
     onProgress: options.onProgress,
   };
-  if (!Number.isInteger(resolved.folds) || resolved.folds < 2)
-    throw new UsageError(message.badInteger("--folds", String(resolved.folds), 2));
+  if (resolved.folds !== "loo" && (!Number.isInteger(resolved.folds) || resolved.folds < 2))
+    throw new UsageError(message.badFolds(String(resolved.folds)));
   if (!Number.isInteger(resolved.repeats) || resolved.repeats < 1)
     throw new UsageError(message.badInteger("--repeats", String(resolved.repeats), 1));
   if (!Number.isSafeInteger(resolved.seed))
     throw new UsageError(message.badInteger("--seed", String(resolved.seed), 0));
   if (!Number.isInteger(resolved.workers) || resolved.workers < 1)
     throw new UsageError(message.badInteger("--workers", String(resolved.workers), 1));
-  if (!createLearner(resolved.learner))
-    throw new UsageError(message.unknownName("--learner", resolved.learner, learnerNames()));
-  if (!findMetric(resolved.metric))
+  const learnerOfTask = taskOfLearner(resolved.learner);
+  if (learnerOfTask === undefined)
+    throw new UsageError(
+      message.unknownName("--learner", resolved.learner, regression ? regressionLearnerNames() : learnerNames()),
+    );
+  if (learnerOfTask !== task)
+    throw new UsageError(message.taskMismatch("--learner", resolved.learner, learnerOfTask, task));
+  const metric = findMetric(resolved.metric);
+  if (!metric)
     throw new UsageError(
       message.unknownName(
         "--metric",
@@ -74,7 +143,14 @@ export function resolveMeasureOptions(options: MeasureOptions = {}): ResolvedMea
         metrics.map((m) => m.name),
       ),
     );
+  if (metric.task !== task) throw new UsageError(message.taskMismatch("--metric", metric.name, metric.task, task));
   return resolved;
+}
+
+/** The task of the learner of that name, or undefined when there is no such learner. */
+function taskOfLearner(name: string): "classification" | "regression" | undefined {
+  const learner = createAnyLearner(name);
+  return learner === undefined ? undefined : learner.task === "regression" ? "regression" : "classification";
 }
 
 /**
@@ -90,72 +166,185 @@ export async function measureCurve(
   provenance: Pick<CurveFile, "source" | "label" | "group"> = {},
 ): Promise<CurveFile> {
   // 1. options
-  const o = resolveMeasureOptions(options);
+  const dataTask = data.targets ? "regression" : "classification";
+  const o = resolveMeasureOptions(options, dataTask);
+  if (o.task !== dataTask) throw new UsageError(message.dataTaskMismatch(o.task, dataTask));
   const metric = findMetric(o.metric)!;
   const classCount = data.classNames.length;
+  const warnings: string[] = [];
 
-  // 2. design checks
+  // 2. split design, checked against the data
+  const design = chooseDesign({
+    task: o.task,
+    folds: o.folds,
+    rows: data.rows,
+    labels: data.labels,
+    groups: data.groups,
+    groupColumn: provenance.group,
+    byRuns: o.byRuns,
+  });
+  warnings.push(...design.warnings);
   const classCounts = new Array<number>(classCount).fill(0);
   for (const label of data.labels) classCounts[label]++;
-  classCounts.forEach((count, k) => {
-    if (count < o.folds) throw new DataError(message.classTooSmall(file, data.classNames[k], count, o.folds));
-  });
-  const smallestPool = data.rows - Math.ceil(data.rows / o.folds);
-  const trainingSizes = o.trainingSizes ?? defaultSizes(file, classCounts, smallestPool, o.folds);
-  for (const size of trainingSizes) {
-    if (size > smallestPool) throw new UsageError(message.sizeTooLarge(size, smallestPool));
-    if (size < Math.max(2, classCount)) throw new UsageError(message.sizeTooSmall(size, classCount));
-  }
-
-  // 3. folds fixed once per repeat; nested orderings per (repeat, fold)
-  const tasks: FitTask[] = [];
-  for (let repeat = 0; repeat < o.repeats; repeat++) {
-    const splits = stratifiedKFold(data.labels, o.folds, new RandomStream(o.seed, StreamPurpose.folds, repeat));
-    splits.forEach((split, fold) => {
-      const order = new RandomStream(o.seed, StreamPurpose.order, repeat, fold);
-      tasks.push({
-        index: repeat * o.folds + fold,
-        repeat,
-        fold,
-        orderedTrain: nestedStratifiedOrder(split.train, data.labels, order),
-        test: split.test,
-      });
+  if (design.splitter === "stratified-k-fold") {
+    const numericLabels = data.classNames.every((name) => /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(name));
+    classCounts.forEach((count, k) => {
+      if (count < design.folds)
+        throw new DataError(
+          message.classTooSmall(file, data.classNames[k], count, design.folds) +
+            (numericLabels && provenance.label !== undefined ? message.numericLabelHint(provenance.label) : ""),
+        );
     });
   }
 
-  // 4. fits
-  const plan = { trainingSizes, learner: o.learner, metric: o.metric, seed: o.seed };
-  const scoresByTask = await runFitTasks(data, plan, tasks, { workers: o.workers, onTaskDone: o.onProgress });
+  // 3. folds fixed once per repeat
+  const splitsByRepeat: Split[][] = Array.from({ length: o.repeats }, (_, repeat) =>
+    design.splits(new RandomStream(o.seed, StreamPurpose.folds, repeat)),
+  );
 
-  // 5. assemble
+  // 4. training sizes, in rows or in runs
+  const trainingSizes = checkedSizes(data, file, o, design, splitsByRepeat, classCounts, provenance.group);
+
+  // 5. nested orderings per (repeat, fold), without the folds where the metric is undefined
+  const tasks: FitTask[] = [];
+  let skipped = 0;
+  let firstReason = "";
+  splitsByRepeat.forEach((splits, repeat) =>
+    splits.forEach((split, fold) => {
+      const reason = metricUndefinedOn(metric, data, split.test);
+      if (reason !== undefined) {
+        if (skipped++ === 0) firstReason = reason;
+        return;
+      }
+      const order = new RandomStream(o.seed, StreamPurpose.order, repeat, fold);
+      const task: FitTask = { index: tasks.length, repeat, fold, orderedTrain: split.train, test: split.test };
+      if (design.byRuns) {
+        const { rows, runEnds } = nestedRunOrder(split.train, data.groups!, order);
+        task.orderedTrain = rows;
+        task.prefixLengths = trainingSizes.map((runs) => runEnds[runs - 1]);
+      } else if (o.task === "regression") task.orderedTrain = nestedRandomOrder(split.train, order);
+      else task.orderedTrain = nestedStratifiedOrder(split.train, data.labels, order);
+      tasks.push(task);
+    }),
+  );
+  const totalFolds = splitsByRepeat.reduce((sum, splits) => sum + splits.length, 0);
+  if (tasks.length === 0) throw new DataError(message.metricUndefinedEverywhere(metric.name, firstReason));
+  if (skipped > 0) warnings.push(message.metricUndefinedSome(metric.name, skipped, totalFolds, firstReason));
+  const grid = o.tune ? tuningGridOf(createAnyLearner(o.learner)!) : undefined;
+  if (o.tune && grid === undefined) warnings.push(message.tuneWithoutGrid(o.learner));
+
+  // 6. fits
+  const plan: FitPlan = {
+    trainingSizes,
+    learner: o.learner,
+    metric: o.metric,
+    seed: o.seed,
+    task: o.task,
+    tune: grid !== undefined,
+    groupedInner: design.grouped,
+  };
+  // What a checkpoint must match to be resumed: the data, every option that changes a score, the version.
+  const { workers: _workers, onProgress: _onProgress, ...measurement } = o;
+  const identity = { tool: toolVersion, data: datasetDigest(data), provenance, ...measurement, trainingSizes };
+  const scoresByTask = await runWithCheckpoint(
+    options.checkpoint,
+    identity,
+    tasks.length,
+    fitResultLength(plan),
+    (hooks) =>
+      runFitTasks(data, plan, tasks, {
+        workers: o.workers,
+        onTaskDone: o.onProgress,
+        signal: options.signal,
+        ...hooks,
+      }),
+  );
+
+  // 7. assemble
+  const range = metricRangeFor(metric, classCount);
+  const sizeCount = trainingSizes.length;
   const curve: CurveFile = {
     kind: "headroom-curve",
     version: 1,
     metric: metric.name,
     higherIsBetter: metric.higherIsBetter,
-    ...(metric.range ? { metricRange: metric.range } : {}),
+    ...(range ? { metricRange: range } : {}),
     rows: data.rows,
+    task: o.task,
     learner: o.learner,
-    folds: o.folds,
+    folds: design.folds,
     repeats: o.repeats,
     seed: o.seed,
+    splitter: design.splitter,
+    unit: design.byRuns ? "runs" : "rows",
+    ...(design.runs === undefined ? {} : { runs: design.runs, rowsPerRun: data.rows / design.runs }),
+    ...(grid === undefined ? {} : { tuning: { grid: grid.map((settings) => ({ ...settings })), innerFolds } }),
     ...provenance,
-    classNames: data.classNames,
+    ...(o.task === "classification" ? { classNames: data.classNames } : {}),
+    ...(warnings.length > 0 ? { warnings } : {}),
     points: trainingSizes.map((trainingSize, s) => ({
       trainingSize,
       scores: scoresByTask.map((scores) => scores[s]),
+      ...(skipped > 0 ? { repeatOfScore: tasks.map((task) => task.repeat) } : {}),
+      ...(grid === undefined ? {} : { settingsOfScore: scoresByTask.map((scores) => scores[sizeCount + s]) }),
     })),
   };
   return curve;
 }
 
-function defaultSizes(file: string, classCounts: number[], smallestPool: number, folds: number): number[] {
-  const smallest = smallestSensibleSize(classCounts);
-  const sizes = geometricSizes(smallest, smallestPool, 8);
-  if (sizes.length < 3) {
-    // Three distinct sizes need a pool of at least smallest + 2 rows after holding out a fold.
-    const rows = classCounts.reduce((a, b) => a + b, 0);
-    throw new DataError(message.tooFewRows(file, rows, Math.ceil(((smallest + 2) * folds) / (folds - 1))));
+/**
+ * The training sizes: the given ones checked, or the default geometric ones. In rows, each size must
+ * fit in every fold's training pool and hold each class (or 2 rows of a numeric target); in runs,
+ * each must fit in every pool's runs.
+ * @throws UsageError naming a size that cannot be drawn and why; DataError when the data are too
+ *   few for a default curve of 3 sizes.
+ */
+function checkedSizes(
+  data: Dataset,
+  file: string,
+  o: ResolvedMeasureOptions,
+  design: SplitDesign,
+  splitsByRepeat: Split[][],
+  classCounts: number[],
+  groupColumn: string | undefined,
+): number[] {
+  const splits = splitsByRepeat.flat();
+  if (design.byRuns) {
+    const groups = data.groups!;
+    const smallestPool = Math.min(
+      ...splits.map((split) => new Set(Array.from(split.train, (row) => groups[row])).size),
+    );
+    const sizes = o.trainingSizes ?? geometricSizes(1, smallestPool, 8);
+    if (o.trainingSizes === undefined && sizes.length < 3)
+      throw new DataError(message.tooFewRuns(file, groupColumn ?? "group", design.runs!, neededFor(1, design)));
+    for (const size of sizes)
+      if (size > smallestPool) throw new UsageError(message.sizeTooLargeRuns(size, smallestPool));
+    return sizes;
+  }
+  const smallestPool = Math.min(...splits.map((split) => split.train.length));
+  const regression = o.task === "regression";
+  let sizes = o.trainingSizes;
+  if (sizes === undefined) {
+    const smallest = regression ? smallestSensibleRegressionSize : smallestSensibleSize(classCounts);
+    sizes = geometricSizes(smallest, smallestPool, 8);
+    if (sizes.length < 3) throw new DataError(message.tooFewRows(file, data.rows, neededFor(smallest, design)));
+  }
+  const classCount = classCounts.length;
+  for (const size of sizes) {
+    if (size > smallestPool) throw new UsageError(message.sizeTooLarge(size, smallestPool));
+    if (regression && size < 2) throw new UsageError(message.sizeTooSmallRegression(size));
+    if (!regression && size < Math.max(2, classCount)) throw new UsageError(message.sizeTooSmall(size, classCount));
   }
   return sizes;
+}
+
+/**
+ * The fewest rows (or runs) whose training pools, after holding out one of the design's folds (one
+ * row or run for the leave-one-out designs), hold the 3 sizes `smallest`, +1, +2.
+ */
+function neededFor(smallest: number, design: SplitDesign): number {
+  const leaveOne = design.splitter === "leave-one-out" || design.splitter === "leave-one-group-out";
+  for (let n = smallest + 3; ; n++) {
+    if (n - (leaveOne ? 1 : Math.ceil(n / design.folds)) >= smallest + 2) return n;
+  }
 }

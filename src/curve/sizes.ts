@@ -10,6 +10,9 @@ export function smallestSensibleSize(classCounts: number[]): number {
   return Math.max(10, Math.ceil((2 * rows) / rarest));
 }
 
+/** The smallest training size worth fitting for a numeric target: 10 rows (common practice). */
+export const smallestSensibleRegressionSize = 10;
+
 /**
  * `count` sizes spaced evenly on a log scale from `smallest` to `largest` (both included), rounded to
  * whole rows and made strictly increasing. Learning curves are close to straight on log axes, so

@@ -15,6 +15,12 @@ export interface ColumnChoice {
   group?: string;
   /** Columns to leave out of the features (identifiers, free text). */
   ignore?: string[];
+  /**
+   * Whether the label is a class (classification) or a numeric target (regression). Given, not
+   * guessed: a numeric column with few distinct whole numbers is usually classes.
+   * @default "classification"
+   */
+  task?: "classification" | "regression";
 }
 
 /** Cells read as a missing value. Anything else must be a finite decimal number. */
@@ -25,7 +31,16 @@ const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 /**
  * Builds the data set. Class names are sorted as strings (as scikit-learn's label encoding does), so
- * class indices do not depend on row order.
+ * class indices do not depend on row order. With `task: "regression"` the label column must hold a
+ * finite number in every row; it fills `targets`, and `labels` and `classNames` are empty.
+ *
+ * Feature columns: a column whose cells are all numbers (or missing) is numeric. A column that is
+ * mostly text (more text cells than number cells) is categorical: its category names are its distinct
+ * non-missing cells (numbers included, as written) sorted as strings, and a row's value is the index
+ * of its category (NaN when missing); `categories` records the names. A column that is mostly
+ * numbers with some text is an error at its first text cell, since that is usually a typo or a code
+ * such as "<0.5" that would silently turn a measurement into categories. `NaN` and `Infinity` are
+ * errors in any column.
  * @throws UsageError when a named column is absent; DataError for bad header or cells.
  */
 export function tableToDataset(table: CsvTable, choice: ColumnChoice): Dataset {
@@ -46,26 +61,55 @@ export function tableToDataset(table: CsvTable, choice: ColumnChoice): Dataset {
 
   const width = header.length;
   const d = featureColumns.length;
+  const regression = choice.task === "regression";
   const features = new Float64Array(rows.length * d);
   const labelText: string[] = new Array(rows.length);
+  const targets = new Float64Array(regression ? rows.length : 0);
   const groupText: string[] = [];
+  // Per feature column: how many cells were numbers and text, and where the first text cell was.
+  const numberCells = new Int32Array(d);
+  const textCells = new Int32Array(d);
+  const firstText: { row: number; text: string }[] = new Array(d);
   for (let r = 0; r < rows.length; r++) {
     const cells = rows[r];
     if (cells.length !== width) throw new DataError(message.raggedRow(file, lines[r], width, cells.length));
     const label = cells[labelColumn].trim();
     if (label === "") throw new DataError(message.labelMissing(file, lines[r], labelColumn + 1, choice.label));
     labelText[r] = label;
+    if (regression) {
+      const target = readNumber(label, file, lines[r], labelColumn + 1, choice.label);
+      if (target === undefined || Number.isNaN(target))
+        throw new DataError(message.targetNotNumber(file, lines[r], labelColumn + 1, choice.label, label));
+      targets[r] = target;
+    }
     if (groupColumn >= 0) groupText.push(cells[groupColumn].trim());
     for (let j = 0; j < d; j++) {
       const c = featureColumns[j];
-      features[r * d + j] = parseCell(cells[c], file, lines[r], c + 1, header[c]);
+      const value = readNumber(cells[c].trim(), file, lines[r], c + 1, header[c]);
+      if (value === undefined) {
+        if (textCells[j]++ === 0) firstText[j] = { row: r, text: cells[c].trim() };
+        features[r * d + j] = NaN;
+      } else {
+        if (!Number.isNaN(value)) numberCells[j]++;
+        features[r * d + j] = value;
+      }
     }
   }
 
-  const classNames = [...new Set(labelText)].sort(compareStrings);
-  if (classNames.length < 2) throw new DataError(message.oneClass(file, choice.label, classNames[0]));
+  // Text columns: categorical when mostly text, an error at the first text cell when mostly numbers.
+  const categories: (string[] | null)[] = featureColumns.map((c, j) => {
+    if (textCells[j] === 0) return null;
+    if (textCells[j] <= numberCells[j]) {
+      const { row, text } = firstText[j];
+      throw new DataError(message.mixedColumn(file, lines[row], c + 1, header[c], text));
+    }
+    return encodeCategories(rows, c, j, d, features);
+  });
+
+  const classNames = regression ? [] : [...new Set(labelText)].sort(compareStrings);
+  if (!regression && classNames.length < 2) throw new DataError(message.oneClass(file, choice.label, classNames[0]));
   const classIndex = new Map(classNames.map((name, i) => [name, i]));
-  const labels = Int32Array.from(labelText, (name) => classIndex.get(name) as number);
+  const labels = regression ? new Int32Array(0) : Int32Array.from(labelText, (name) => classIndex.get(name) as number);
 
   const dataset: Dataset = {
     features,
@@ -74,6 +118,8 @@ export function tableToDataset(table: CsvTable, choice: ColumnChoice): Dataset {
     labels,
     classNames,
   };
+  if (regression) dataset.targets = targets;
+  if (categories.some((names) => names !== null)) dataset.categories = categories;
   if (groupColumn >= 0) {
     const groupNames = [...new Set(groupText)].sort(compareStrings);
     const groupIndex = new Map(groupNames.map((name, i) => [name, i]));
@@ -93,8 +139,11 @@ function checkHeader({ file, header }: CsvTable): void {
   });
 }
 
-function parseCell(text: string, file: string, line: number, column: number, columnName: string): number {
-  const cell = text.trim();
+/**
+ * A trimmed cell as a number: NaN when missing, undefined when it is text.
+ * @throws DataError for NaN, Infinity and numbers too large for a double.
+ */
+function readNumber(cell: string, file: string, line: number, column: number, columnName: string): number | undefined {
   if (MISSING.has(cell)) return NaN;
   if (DECIMAL.test(cell)) {
     const value = Number(cell);
@@ -104,7 +153,20 @@ function parseCell(text: string, file: string, line: number, column: number, col
   if (/^[+-]?(inf|infinity|nan)$/i.test(cell)) {
     throw new DataError(message.notFinite(file, line, column, columnName, cell));
   }
-  throw new DataError(message.notANumber(file, line, column, columnName, cell));
+  return undefined;
+}
+
+/**
+ * Makes feature column `j` (CSV column `c`) categorical: its distinct non-missing cells sorted as
+ * strings become the category names, and each row's value becomes its category's index (NaN when
+ * missing). Returns the names.
+ */
+function encodeCategories(rows: string[][], c: number, j: number, d: number, features: Float64Array): string[] {
+  const cells = rows.map((cells) => cells[c].trim());
+  const names = [...new Set(cells.filter((cell) => !MISSING.has(cell)))].sort(compareStrings);
+  const index = new Map(names.map((name, k) => [name, k]));
+  cells.forEach((cell, r) => (features[r * d + j] = MISSING.has(cell) ? NaN : (index.get(cell) as number)));
+  return names;
 }
 
 /** Code-unit order, as Python sorts strings: independent of the machine's locale. */

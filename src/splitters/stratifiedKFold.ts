@@ -6,8 +6,8 @@
  * scikit-learn's StratifiedKFold, which allots class counts per fold differently, but the invariants
  * are the same: disjoint test folds covering every row once, class proportions kept.
  */
-import { RandomStream } from "../random.js";
-import type { Split } from "./split.js";
+import type { RandomStream } from "../random.js";
+import { splitsFromFoldOf, type Split } from "./split.js";
 
 /**
  * @param labels class index of each row
@@ -30,12 +30,5 @@ export function stratifiedKFold(labels: Int32Array, folds: number, random: Rando
       next = (next + 1) % folds;
     }
   }
-  const splits: Split[] = [];
-  for (let f = 0; f < folds; f++) {
-    const test: number[] = [];
-    const train: number[] = [];
-    for (let i = 0; i < rows; i++) (foldOf[i] === f ? test : train).push(i);
-    splits.push({ train: Int32Array.from(train), test: Int32Array.from(test) });
-  }
-  return splits;
+  return splitsFromFoldOf(foldOf, folds);
 }

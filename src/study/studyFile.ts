@@ -15,12 +15,18 @@ export const studySchema = z.strictObject({
   ignore: z.array(z.string()).optional(),
   measure: z
     .strictObject({
-      folds: z.number().int().min(2).optional(),
+      /** Folds, or "loo" for leave-one-out (leave-one-run-out with a group). */
+      folds: z.union([z.number().int().min(2), z.literal("loo")]).optional(),
       repeats: z.number().int().min(1).optional(),
       sizes: z.array(z.number().int().positive()).min(1).optional(),
       seed: z.number().int().nonnegative().optional(),
+      task: z.enum(["classification", "regression"]).optional(),
       learner: z.string().optional(),
       metric: z.string().optional(),
+      /** Tune the learner by inner cross-validation at every training size. */
+      tune: z.boolean().optional(),
+      /** Measure against whole runs of `group` (sizes in runs). */
+      byRuns: z.boolean().optional(),
     })
     .default({}),
   forecast: z

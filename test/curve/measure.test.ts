@@ -90,7 +90,7 @@ describe("measureCurve", () => {
   });
 
   it.each([
-    [{ folds: 1 }, UsageError, "--folds: '1' is not a whole number of at least 2"],
+    [{ folds: 1 }, UsageError, "--folds: '1' is neither a whole number of at least 2 nor 'loo'"],
     [{ repeats: 0 }, UsageError, "--repeats: '0' is not a whole number of at least 1"],
     [{ trainingSizes: [10, 81] }, UsageError, "training size 81 is larger than the smallest training pool (80 rows"],
     [{ learner: "oracle" }, UsageError, "--learner: unknown name 'oracle'"],

@@ -19,6 +19,53 @@ describe("tableToDataset", () => {
     expect([...(data.groups as Int32Array)]).toEqual([0, 1, 0]);
   });
 
+  it("reads a numeric target for regression: targets filled, labels and class names empty", () => {
+    const data = tableToDataset(csv("x,y\n1,2.5\n2,-1e-3\n3,40\n"), { label: "y", task: "regression" });
+    expect([...(data.targets as Float64Array)]).toEqual([2.5, -0.001, 40]);
+    expect(data.labels).toHaveLength(0);
+    expect(data.classNames).toEqual([]);
+    expect(data.featureNames).toEqual(["x"]);
+  });
+
+  it("makes a text column categorical: sorted category names, index values, NaN for missing", () => {
+    const data = tableToDataset(csv("colour,x,c\nred,1,a\nblue,2,b\n,3,a\nred,NA,b\ngreen,5,a\n"), { label: "c" });
+    expect(data.categories).toEqual([["blue", "green", "red"], null]);
+    expect([...data.features]).toEqual([2, 1, 0, 2, NaN, 3, 2, NaN, 1, 5]);
+  });
+
+  it("keeps the numbers of a mostly-text column as category names", () => {
+    const data = tableToDataset(csv("site,c\nA,a\nB,b\n3,a\nB,b\n"), { label: "c" });
+    expect(data.categories).toEqual([["3", "A", "B"]]);
+    expect([...data.features]).toEqual([1, 2, 0, 2]);
+  });
+
+  it("leaves `categories` out when every feature column is numeric", () => {
+    expect(tableToDataset(csv("x,c\n1,a\n2,b\n"), { label: "c" }).categories).toBeUndefined();
+  });
+
+  it.each([
+    [
+      "text in a mostly numeric column",
+      "x,c\n1,a\n2,b\nabc,a\n",
+      "d.csv:4:1: 'abc' in column 'x' is not a number, though most of the column is numbers",
+    ],
+    ["NaN in a text column", "s,c\nA,a\nB,a\nNaN,b\n", "d.csv:4:1: 'NaN' in column 's' is not a finite number"],
+  ])("rejects %s", (_, text, expected) => {
+    expect(() => tableToDataset(csv(text), { label: "c" })).toThrow(expected);
+  });
+
+  it.each([
+    [
+      "a text target",
+      "x,y\n1,2\n2,abc\n",
+      "d.csv:3:2: the target 'y' is 'abc', not a finite number, as --task regression needs",
+    ],
+    ["an infinite target", "x,y\n1,2\n2,Infinity\n", "d.csv:3:2: 'Infinity' in column 'y' is not a finite number"],
+    ["an empty target", "x,y\n1,2\n2,\n", "d.csv:3:2: the label 'y' is empty"],
+  ])("rejects %s for regression", (_, text, expected) => {
+    expect(() => tableToDataset(csv(text), { label: "y", task: "regression" })).toThrow(expected);
+  });
+
   it.each([
     ["a non-number", "x,c\n1,a\n0x10,b\n", "d.csv:3:1: '0x10' in column 'x' is not a number"],
     ["NaN", "x,c\n1,a\nNaN,b\n", "d.csv:3:1: 'NaN' in column 'x' is not a finite number"],

@@ -1,50 +1,64 @@
 import { Command } from "commander";
-import { SingleBar } from "cli-progress";
 import { basename } from "node:path";
 import { measureFile } from "../../pipeline.js";
-import { toJson, writeFileAtomic } from "../../io/files.js";
+import { checkOutputPath, toJson, writeFileAtomic } from "../../io/files.js";
+import { checkpointFileFor, removeCheckpoint } from "../../curve/checkpoint.js";
 import type { CliIo } from "../io.js";
-import { optionalInteger, optionalSizeList } from "../parseOptions.js";
+import { progressBar } from "../progress.js";
+import { optionalFolds, optionalInteger, optionalSizeList } from "../parseOptions.js";
 import { availableParallelism } from "node:os";
 
 export function measureCommand(io: CliIo): Command {
   return new Command("measure")
     .description("measure the learning curve of a labelled CSV by repeated cross-validated subsampling")
     .argument("<data>", "CSV file with a header row")
-    .requiredOption("--label <column>", "column holding the class label")
+    .requiredOption(
+      "--label <column>",
+      "column holding the class label (or the numeric target, with --task regression)",
+    )
     .option("--group <column>", "column naming the run (batch) each row came from")
     .option("--ignore <columns>", "comma-separated columns to leave out of the features")
-    .option("--folds <k>", "cross-validation folds (default 5)")
+    .option("--task <kind>", "classification or regression (default: from --learner or --metric, else classification)")
+    .option("--learner <name>", "learner (default: logistic; ridge for regression)")
+    .option("--metric <name>", "score of each fit (default: accuracy; rmse for regression)")
+    .option("--tune", "tune the learner's settings by inner 3-fold cross-validation at every training size")
+    .option("--by-runs", "measure against whole runs of --group: training sets of whole runs, sizes in runs")
+    .option("--folds <k>", "cross-validation folds, or loo for leave-one-out (default 5)")
     .option("--repeats <r>", "repeats of the k-fold with fresh folds (default 10)")
     .option("--sizes <list>", "training sizes, e.g. 20,40,80 (default: 8 geometric sizes up to the whole pool)")
     .option("--seed <s>", "random seed (default 0)")
     .option("--workers <w>", "worker threads (default: the number of cores)")
     .option("--quiet", "draw no progress bar")
+    .option("--resume", "continue an interrupted run from its checkpoint (<out>.checkpoint.jsonl)")
     .requiredOption("--out <file>", "where to write curve.json")
     .action(async (data: string, options: Record<string, string | boolean | undefined>) => {
-      const bar =
-        !options.quiet && io.stderrIsTerminal
-          ? new SingleBar({ format: "fits {bar} {value}/{total} | {eta}s left" })
-          : undefined;
+      const progress = progressBar(io, options.quiet === true);
+      const out = options.out as string;
+      checkOutputPath(out, [data]);
+      const checkpoint = checkpointFileFor(out);
       const curve = await measureFile(data, {
+        onProgress: progress.onProgress,
         label: options.label as string,
         group: options.group as string | undefined,
         ignore: typeof options.ignore === "string" ? options.ignore.split(",").map((c) => c.trim()) : undefined,
-        folds: optionalInteger("--folds", options.folds as string | undefined, 2),
+        folds: optionalFolds(options.folds as string | undefined),
+        task: options.task as "classification" | "regression" | undefined,
+        learner: options.learner as string | undefined,
+        metric: options.metric as string | undefined,
+        tune: options.tune === true,
+        byRuns: options.byRuns === true,
         repeats: optionalInteger("--repeats", options.repeats as string | undefined, 1),
         trainingSizes: optionalSizeList("--sizes", options.sizes as string | undefined),
         seed: optionalInteger("--seed", options.seed as string | undefined, 0),
         workers: optionalInteger("--workers", options.workers as string | undefined, 1) ?? availableParallelism(),
-        onProgress: bar
-          ? (done, total) => {
-              if (done === 1) bar.start(total, 0);
-              bar.update(done);
-              if (done === total) bar.stop();
-            }
-          : undefined,
-      });
-      writeFileAtomic(options.out as string, toJson(curve), [data]);
-      if (!options.quiet)
+        checkpoint: { file: checkpoint, resume: options.resume === true },
+        signal: io.signal,
+      }).finally(() => progress.stop());
+      writeFileAtomic(out, toJson(curve), [data]);
+      removeCheckpoint(checkpoint);
+      if (!options.quiet) {
+        for (const warning of curve.warnings ?? []) io.stderr(`warning: ${warning}\n`);
         io.stderr(`wrote ${options.out} (${curve.points.length} training sizes from ${basename(data)})\n`);
+      }
     });
 }

@@ -1,15 +1,16 @@
 import { Command } from "commander";
-import { SingleBar } from "cli-progress";
 import { availableParallelism } from "node:os";
 import { basename, extname, join } from "node:path";
 import { runStudy } from "../../study/runStudy.js";
 import type { CliIo } from "../io.js";
+import { progressBar } from "../progress.js";
 import { optionalInteger } from "../parseOptions.js";
 
 /** Options shared by `study` and `demo`. */
 export function addRunOptions(command: Command): Command {
   return command
     .option("--workers <w>", "worker threads (default: the number of cores)")
+    .option("--resume", "continue an interrupted run from its checkpoint (<out>/curve.json.checkpoint.jsonl)")
     .option("--quiet", "draw no progress bar and print nothing on success");
 }
 
@@ -21,26 +22,20 @@ export async function runStudyFromCli(
   options: Record<string, string | boolean | undefined>,
   commandLine: string,
 ): Promise<void> {
-  const bar =
-    !options.quiet && io.stderrIsTerminal
-      ? new SingleBar({ format: "fits {bar} {value}/{total} | {eta}s left" })
-      : undefined;
+  const progress = progressBar(io, options.quiet === true);
   const result = await runStudy(studyFile, {
     outDir,
     workers: optionalInteger("--workers", options.workers as string | undefined, 1) ?? availableParallelism(),
     command: commandLine,
-    onProgress: bar
-      ? (done, total) => {
-          if (done === 1) bar.start(total, 0);
-          bar.update(done);
-          if (done === total) bar.stop();
-        }
-      : undefined,
-  });
+    onProgress: progress.onProgress,
+    resume: options.resume === true,
+    signal: io.signal,
+  }).finally(() => progress.stop());
   if (!options.quiet) {
     const { decision } = result;
     io.stdout(`recommended: ${decision.recommendedRuns} further run(s). ${decision.reasons.recommendedRuns}\n`);
     if (decision.reasons.runsToTarget) io.stdout(`target: ${decision.reasons.runsToTarget}\n`);
+    for (const warning of result.curve.warnings ?? []) io.stderr(`warning: ${warning}\n`);
     io.stderr(`wrote ${result.written.join(", ")}\n`);
   }
 }

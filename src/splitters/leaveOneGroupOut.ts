@@ -1,0 +1,19 @@
+/**
+ * Leave-one-group-out: one fold per group (experimental run), holding out that run's rows and
+ * training on all the others, as scikit-learn's `LeaveOneGroupOut`. With few runs it is the only
+ * grouped design that uses all but one of them for training; it needs no randomness.
+ */
+import { splitsFromFoldOf, type Split } from "./split.js";
+
+/**
+ * One split per group that has rows, in increasing group index.
+ * @param groups group index of each row
+ */
+export function leaveOneGroupOut(groups: Int32Array): Split[] {
+  const present = [...new Set(groups)].sort((a, b) => a - b);
+  const foldOfGroup = new Map(present.map((group, f) => [group, f]));
+  return splitsFromFoldOf(
+    Int32Array.from(groups, (group) => foldOfGroup.get(group) as number),
+    present.length,
+  );
+}

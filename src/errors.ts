@@ -16,6 +16,8 @@ export const ExitCode = {
   internal: 70,
   /** An output could not be written. */
   io: 74,
+  /** Stopped by Ctrl-C (SIGINT): 128 + the signal's number, as shells report it. */
+  interrupted: 130,
 } as const;
 
 export type ExitCodeValue = (typeof ExitCode)[keyof typeof ExitCode];
@@ -62,5 +64,12 @@ export class InputError extends HeadroomError {
 export class OutputError extends HeadroomError {
   constructor(message: string) {
     super(message, ExitCode.io);
+  }
+}
+
+/** The run was stopped (Ctrl-C) before it finished; work done so far may be resumed. */
+export class InterruptedError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.interrupted);
   }
 }

@@ -1,9 +1,28 @@
 #!/usr/bin/env node
-/** The headroom executable: the only file that touches `process`. */
+/**
+ * The headroom executable: the only file that touches `process`.
+ *
+ * Ctrl-C (SIGINT) aborts the run's signal: a measurement stops after the fits under way, keeps the
+ * finished ones in its checkpoint, and the run ends with one line saying how to resume and exit code
+ * 130. A second Ctrl-C stops at once (the checkpoint is written a whole line at a time, so it stays
+ * readable).
+ */
 import { run } from "../cli/program.js";
+import { ExitCode } from "../errors.js";
+
+const interruption = new AbortController();
+process.on("SIGINT", () => {
+  if (!interruption.signal.aborted) {
+    interruption.abort();
+    return;
+  }
+  process.stderr.write("headroom: interrupted again; stopping now (finished fits stay in the checkpoint)\n");
+  process.exit(ExitCode.interrupted);
+});
 
 process.exitCode = await run(process.argv.slice(2), {
   stdout: (text) => process.stdout.write(text),
   stderr: (text) => process.stderr.write(text),
   stderrIsTerminal: process.stderr.isTTY === true,
+  signal: interruption.signal,
 });

@@ -4,4 +4,6 @@ export interface CliIo {
   stderr(text: string): void;
   /** Whether stderr is a terminal (progress bars are drawn only then). */
   stderrIsTerminal: boolean;
+  /** Aborted when the user asks the run to stop (Ctrl-C); long measurements then stop between fits. */
+  signal?: AbortSignal;
 }

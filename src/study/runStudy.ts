@@ -9,13 +9,15 @@ import { dirname, join, resolve } from "node:path";
 import type { CurveFile } from "../curve/curveFile.js";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import { forecastCurve } from "../forecast/forecast.js";
-import { readJsonFile, toJson, writeFileAtomic } from "../io/files.js";
+import { checkpointFileFor, removeCheckpoint } from "../curve/checkpoint.js";
+import { checkOutputPath, readJsonFile, toJson, writeFileAtomic } from "../io/files.js";
 import { validate } from "../io/validate.js";
 import { measureFile } from "../pipeline.js";
-import { decisionTableCsv, renderReportHtml } from "../report/html.js";
+import { reportFiles } from "../report/reportFiles.js";
 import type { DecisionFile } from "../weigh/decisionFile.js";
-import { weighRuns } from "../weigh/weigh.js";
+import { sizesForForecast, weighRuns } from "../weigh/weigh.js";
 import { toolVersion } from "../version.js";
+import { inStudyTerms } from "./studyErrors.js";
 import { studySchema, type Study } from "./studyFile.js";
 
 export interface StudyRunOptions {
@@ -26,6 +28,13 @@ export interface StudyRunOptions {
   onProgress?: (done: number, total: number) => void;
   /** The command line that started the run, for the report's reproducibility footer. */
   command?: string;
+  /**
+   * Continue an interrupted measurement from its checkpoint (`<outDir>/curve.json.checkpoint.jsonl`,
+   * kept while measuring and removed once every output is written). @default false
+   */
+  resume?: boolean;
+  /** Aborting it stops the measurement between fits with an InterruptedError. */
+  signal?: AbortSignal;
 }
 
 export interface StudyResult {
@@ -40,6 +49,9 @@ export interface StudyResult {
 export async function runStudy(studyFile: string, options: StudyRunOptions): Promise<StudyResult> {
   const study = validate(studySchema, readJsonFile(studyFile), studyFile);
   const dataFile = resolve(dirname(studyFile), study.data);
+  // Fail before measuring when the output folder cannot exist (each output is checked again when written).
+  checkOutputPath(join(options.outDir, "curve.json"), [studyFile, dataFile]);
+  const checkpoint = checkpointFileFor(join(options.outDir, "curve.json"));
 
   const curve = await measureFile(dataFile, {
     label: study.label,
@@ -49,21 +61,30 @@ export async function runStudy(studyFile: string, options: StudyRunOptions): Pro
     repeats: study.measure.repeats,
     trainingSizes: study.measure.sizes,
     seed: study.measure.seed,
+    task: study.measure.task,
     learner: study.measure.learner,
     metric: study.measure.metric,
+    tune: study.measure.tune,
+    byRuns: study.measure.byRuns,
     workers: options.workers,
     onProgress: options.onProgress,
+    checkpoint: { file: checkpoint, resume: options.resume === true },
+    signal: options.signal,
+  }).catch((error: unknown) => {
+    throw inStudyTerms(error, studyFile);
   });
   const today = study.plan.currentSamples ?? curve.rows;
-  const at = Array.from({ length: study.plan.maxRuns + 1 }, (_, runs) => today + runs * study.plan.samplesPerRun);
+  // Today's size, each number of further runs at the fewest, expected and most samples a run can
+  // yield, and the sizes the ±25% yield sensitivity reads.
+  const at = sizesForForecast(study.plan, today).all;
   const forecast = forecastCurve(curve, {
     at,
     level: study.forecast.level,
     draws: study.forecast.draws,
     seed: study.measure.seed,
   });
-  const decision = weighRuns(forecast, study.plan);
-  const html = renderReportHtml({
+  const decision = weighRuns(forecast, study.plan, "forecast", { domain: study.context.domain });
+  const report = await reportFiles({
     curve,
     forecast,
     decision,
@@ -78,12 +99,12 @@ export async function runStudy(studyFile: string, options: StudyRunOptions): Pro
     },
   });
 
-  const outputs: [string, string][] = [
+  const outputs: [string, string | Uint8Array][] = [
     ["curve.json", toJson(curve)],
     ["forecast.json", toJson(forecast)],
     ["decision.json", toJson(decision)],
-    ["decision.csv", decisionTableCsv(decision)],
-    ["report.html", html],
+    // report.html, decision.csv, and each chart as SVG and PNG (src/report/reportFiles.ts).
+    ...report.map((file): [string, string | Uint8Array] => [file.fileName, file.content]),
   ];
   const written: string[] = [];
   for (const [name, content] of outputs) {
@@ -91,5 +112,6 @@ export async function runStudy(studyFile: string, options: StudyRunOptions): Pro
     writeFileAtomic(path, content, [studyFile, dataFile]);
     written.push(path);
   }
+  removeCheckpoint(checkpoint);
   return { study, curve, forecast, decision, written };
 }

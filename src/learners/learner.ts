@@ -5,6 +5,12 @@
  */
 import type { RandomStream } from "../random.js";
 
+/**
+ * Named numeric settings of a learner, e.g. `{ C: 0.1 }` or `{ neighbours: 9 }`: one point of a tuning
+ * grid, or the options given to `withOptions`. Plain data, so it can cross to worker threads.
+ */
+export type LearnerSettings = Readonly<Record<string, number>>;
+
 export interface TrainingSet {
   /** Row-major, `rows × columns`. */
   features: Float64Array;
@@ -40,6 +46,13 @@ export interface RegressionLearner {
   readonly name: string;
   readonly task: "regression";
   fit(training: RegressionTrainingSet, random: RandomStream): FittedRegressionModel;
+  /** The settings an inner cross-validation tries, as data (absent: nothing to tune). */
+  readonly tuningGrid?: readonly LearnerSettings[];
+  /**
+   * A learner of the same kind with these settings in place of its own (the others kept).
+   * @throws UsageError on a setting the learner does not have or a value it cannot take.
+   */
+  withOptions?(settings: LearnerSettings): RegressionLearner;
 }
 
 export interface FittedModel {
@@ -55,7 +68,20 @@ export interface Learner {
   readonly name: string;
   /** Classification learners may say so; absent means classification. */
   readonly task?: "classification";
-  fit(training: TrainingSet, random: RandomStream): FittedModel;
+  /**
+   * Fits the model on the training rows. `previous`, when given, is a model this learner fitted on a
+   * nested smaller subsample of the same data (the previous training size of one (repeat, fold)); a
+   * learner that can use it as a warm start may, others ignore it. Either way the result must depend
+   * only on the arguments, so that runs stay reproducible.
+   */
+  fit(training: TrainingSet, random: RandomStream, previous?: FittedModel): FittedModel;
+  /** The settings an inner cross-validation tries, as data (absent: nothing to tune). */
+  readonly tuningGrid?: readonly LearnerSettings[];
+  /**
+   * A learner of the same kind with these settings in place of its own (the others kept).
+   * @throws UsageError on a setting the learner does not have or a value it cannot take.
+   */
+  withOptions?(settings: LearnerSettings): Learner;
 }
 
 /** The most probable class of each row (ties go to the lower class index, as numpy's argmax). */

@@ -1,61 +1,103 @@
 /**
- * Preprocessing for learners that need complete, comparably scaled features: per-column median
- * imputation of missing values followed by standardization, both fitted on the training rows only so
- * that nothing about the held-out rows leaks into the model.
+ * Preprocessing for learners that need complete, comparably scaled features: one-hot encoding of text
+ * columns, per-column median imputation of missing numbers and standardization, all fitted on the
+ * training rows only so that nothing about the held-out rows leaks into the model.
  *
- * It follows scikit-learn's `SimpleImputer(strategy="median")` followed by `StandardScaler()`:
+ * It follows scikit-learn's `SimpleImputer(strategy="median")` followed by `StandardScaler()` for the
+ * numeric columns:
  *  - the imputed value of a column is the median of its non-missing training values (the mean of the
  *    two middle values for an even count, as numpy's median); a column with no training value at all
  *    imputes 0 (scikit-learn would drop it; keeping it as a constant column keeps the column count);
  *  - the mean and the population standard deviation (divisor n, not n − 1) are taken over the imputed
  *    training values; a constant column, by StandardScaler's test (variance within the round-off bound
- *    of Chan, Golub and LeVeque's two-pass algorithm), gets scale 1.
+ *    of Chan, Golub and LeVeque's two-pass algorithm), gets scale 1;
+ *  - with `standardize: false` (for trees, which only compare values within a column) the means are 0
+ *    and the scales 1, so only the imputation applies.
+ *
+ * Text columns (given by `categories`) go first through {@link fitCategoryEncoder}: one 0/1 indicator
+ * column per category seen in training, a missing value taking the most frequent training category,
+ * an unseen category giving zeros. The indicators are not standardized (as scikit-learn's usual
+ * `ColumnTransformer` with a `OneHotEncoder` beside the scaled numeric columns). Numeric-only data
+ * (no text column) gives exactly the columns and values it gave before text columns were supported.
  *
  * Written with plain Float64Array loops: ml-matrix element access is several times slower.
  */
 import { DataError } from "../errors.js";
+import { fitCategoryEncoder, hasCategories, type CategoryEncoder } from "./encode.js";
 
-/** A fitted imputation-and-standardization step. */
+/** What {@link fitPreprocessor} does besides imputing. */
+export interface PreprocessOptions {
+  /** Per input column, the category names of a text column or null for a numeric one. @default all numeric */
+  categories?: readonly (readonly string[] | null)[];
+  /** Whether to centre and scale the numeric columns. @default true */
+  standardize?: boolean;
+}
+
+/** A fitted encoding, imputation and standardization step. */
 export interface Preprocessor {
-  /** Number of feature columns it was fitted on. */
+  /** Number of input feature columns it was fitted on. */
   readonly columns: number;
-  /** Value put in place of NaN, per column (median of the non-missing training values, or 0). */
+  /** Number of columns `transform` returns: `columns` when no column holds text. */
+  readonly outputColumns: number;
+  /** The one-hot encoding of the text columns, or null when every column is numeric. */
+  readonly encoder: CategoryEncoder | null;
+  /**
+   * Value put in place of NaN, per output column (median of the non-missing training values, or 0;
+   * 0 for an indicator column, which is never missing).
+   */
   readonly imputedValues: Float64Array;
-  /** Mean of each column over the imputed training rows. */
+  /** Mean of each output column over the imputed training rows (0 for indicators and without standardizing). */
   readonly means: Float64Array;
-  /** Divisor of each column: population standard deviation, or 1 for a constant column. */
+  /** Divisor of each output column: population standard deviation, or 1 (constant, indicator, unstandardized). */
   readonly scales: Float64Array;
   /**
-   * Imputes and standardizes rows: `(x − mean) / scale`, with NaN replaced by the imputed value first.
-   * Returns a new row-major `rows × columns` array; the input is not changed.
-   * @throws DataError when the array does not hold `rows × columns` values or a value is ±Infinity.
+   * Encodes, imputes and standardizes rows: `(x − mean) / scale`, with NaN replaced by the imputed
+   * value first. Returns a new row-major `rows × outputColumns` array; the input is not changed.
+   * @throws DataError when the array does not hold `rows × columns` values, a value is ±Infinity, or a
+   *   text column holds something other than a category index.
    */
   transform(features: Float64Array, rows: number): Float64Array;
 }
 
 /**
- * Fits the imputation values, means and scales on training rows.
- * @param features row-major `rows × columns`; NaN marks a missing value
- * @throws DataError when there are no rows, the array has the wrong length, or a value is ±Infinity.
+ * Fits the encoding, imputation values, means and scales on training rows.
+ * @param features row-major `rows × columns`; NaN marks a missing value; in a text column, the value is
+ *   the category index
+ * @throws DataError when there are no rows, the array has the wrong length, a value is ±Infinity, or a
+ *   text column holds something other than a category index (see {@link fitCategoryEncoder}).
  * @example
  * // Column 0 holds 1, NaN, 3: the NaN imputes the median 2, the mean is 2, the scale √(2/3).
  * fitPreprocessor(new Float64Array([1, NaN, 3]), 3, 1).transform(new Float64Array([NaN]), 1); // [0]
  */
-export function fitPreprocessor(features: Float64Array, rows: number, columns: number): Preprocessor {
+export function fitPreprocessor(
+  features: Float64Array,
+  rows: number,
+  columns: number,
+  options: PreprocessOptions = {},
+): Preprocessor {
   checkShape(features, rows, columns, "training");
   if (rows < 1) throw new DataError("preprocessing: no training rows to fit the imputation and scaling on");
-  const imputedValues = new Float64Array(columns);
-  const means = new Float64Array(columns);
-  const scales = new Float64Array(columns);
+  const standardize = options.standardize ?? true;
+  const encoder = hasCategories(options.categories)
+    ? fitCategoryEncoder(features, rows, columns, options.categories!)
+    : null;
+  // Without text columns the input is read directly (no copy).
+  const values = encoder ? encoder.transform(features, rows) : features;
+  const width = encoder ? encoder.outputColumns : columns;
+  const imputedValues = new Float64Array(width);
+  const means = new Float64Array(width);
+  const scales = new Float64Array(width).fill(1);
   const present = new Float64Array(rows);
   const eps = Number.EPSILON;
-  for (let j = 0; j < columns; j++) {
+  for (let j = 0; j < width; j++) {
+    if (encoder && encoder.indicatedCategories[j] >= 0) continue; // an indicator: kept as 0/1
+    const source = encoder ? encoder.sourceColumns[j] : j;
     // Median of the non-missing values.
     let count = 0;
     for (let i = 0; i < rows; i++) {
-      const v = features[i * columns + j];
+      const v = values[i * width + j];
       if (Number.isNaN(v)) continue;
-      if (!Number.isFinite(v)) throw new DataError(notFinite("training", i, j, v));
+      if (!Number.isFinite(v)) throw new DataError(notFinite("training", i, source, v));
       present[count++] = v;
     }
     let median = 0;
@@ -65,17 +107,18 @@ export function fitPreprocessor(features: Float64Array, rows: number, columns: n
       median = count % 2 === 1 ? sorted[half] : (sorted[half - 1] + sorted[half]) / 2;
     }
     imputedValues[j] = median;
+    if (!standardize) continue;
     // Mean and population variance of the imputed column (two passes with the rounding correction).
     let sum = 0;
     for (let i = 0; i < rows; i++) {
-      const v = features[i * columns + j];
+      const v = values[i * width + j];
       sum += Number.isNaN(v) ? median : v;
     }
     const mean = sum / rows;
     let squares = 0;
     let residualSum = 0;
     for (let i = 0; i < rows; i++) {
-      const v = features[i * columns + j];
+      const v = values[i * width + j];
       const d = (Number.isNaN(v) ? median : v) - mean;
       squares += d * d;
       residualSum += d;
@@ -86,28 +129,32 @@ export function fitPreprocessor(features: Float64Array, rows: number, columns: n
     means[j] = mean;
     scales[j] = variance <= bound ? 1 : Math.sqrt(variance);
   }
-  return new FittedPreprocessor(columns, imputedValues, means, scales);
+  return new FittedPreprocessor(columns, width, encoder, imputedValues, means, scales);
 }
 
 class FittedPreprocessor implements Preprocessor {
   constructor(
     readonly columns: number,
+    readonly outputColumns: number,
+    readonly encoder: CategoryEncoder | null,
     readonly imputedValues: Float64Array,
     readonly means: Float64Array,
     readonly scales: Float64Array,
   ) {}
 
   transform(features: Float64Array, rows: number): Float64Array {
-    const columns = this.columns;
+    const { columns, outputColumns, encoder } = this;
     checkShape(features, rows, columns, "prediction");
-    const out = new Float64Array(rows * columns);
+    const input = encoder ? encoder.transform(features, rows) : features;
+    const out = encoder ? input : new Float64Array(rows * outputColumns);
     const { imputedValues, means, scales } = this;
     for (let i = 0; i < rows; i++) {
-      const offset = i * columns;
-      for (let j = 0; j < columns; j++) {
-        let v = features[offset + j];
+      const offset = i * outputColumns;
+      for (let j = 0; j < outputColumns; j++) {
+        let v = input[offset + j];
         if (Number.isNaN(v)) v = imputedValues[j];
-        else if (!Number.isFinite(v)) throw new DataError(notFinite("prediction", i, j, v));
+        else if (!Number.isFinite(v))
+          throw new DataError(notFinite("prediction", i, encoder ? encoder.sourceColumns[j] : j, v));
         out[offset + j] = (v - means[j]) / scales[j];
       }
     }

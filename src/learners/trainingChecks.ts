@@ -1,0 +1,109 @@
+/**
+ * Checks and bookkeeping every learner does before fitting: the training set has the shape it
+ * claims, each label is a class of the data set, and which classes the rows actually hold (a small
+ * training subsample may lack some; learners fit the classes present and give the others
+ * probability 0).
+ */
+import { DataError } from "../errors.js";
+import type { RegressionTrainingSet, TrainingSet } from "./learner.js";
+
+/** The classes a training set holds. */
+export interface ClassSummary {
+  /** Rows of each class of the data set, `classCount` entries. */
+  counts: Int32Array;
+  /** The classes with at least one row, ascending. */
+  present: Int32Array;
+  /** Each row's label renumbered over the present classes: `0 .. present.length − 1`. */
+  positions: Int32Array;
+}
+
+/**
+ * Checks a classification training set and summarises its classes.
+ * @throws DataError when there are no rows, the features do not hold rows × columns values, the
+ *   labels do not match the rows, classCount is not a whole number of at least 1, or a label lies
+ *   outside 0 .. classCount − 1.
+ */
+export function summarizeClasses(learner: string, training: TrainingSet): ClassSummary {
+  const { features, rows, columns, labels, classCount } = training;
+  checkShape(learner, features, rows, columns);
+  if (!(Number.isInteger(classCount) && classCount >= 1))
+    throw new DataError(`${learner}: classCount must be a whole number of at least 1, got ${classCount}`);
+  if (labels.length !== rows) throw new DataError(`${learner}: ${labels.length} labels for ${rows} training rows`);
+  const counts = new Int32Array(classCount);
+  for (let i = 0; i < rows; i++) {
+    const label = labels[i];
+    if (!(label >= 0 && label < classCount))
+      throw new DataError(`${learner}: training row ${i + 1} has label ${label}, outside 0 .. ${classCount - 1}`);
+    counts[label]++;
+  }
+  const present: number[] = [];
+  const position = new Int32Array(classCount).fill(-1);
+  for (let k = 0; k < classCount; k++) {
+    if (counts[k] > 0) {
+      position[k] = present.length;
+      present.push(k);
+    }
+  }
+  const positions = new Int32Array(rows);
+  for (let i = 0; i < rows; i++) positions[i] = position[labels[i]];
+  return { counts, present: Int32Array.from(present), positions };
+}
+
+/**
+ * Checks a regression training set.
+ * @throws DataError when there are no rows, the features do not hold rows × columns values, the
+ *   targets do not match the rows, or a target is not a finite number.
+ */
+export function checkRegressionSet(learner: string, training: RegressionTrainingSet): void {
+  const { features, rows, columns, targets } = training;
+  checkShape(learner, features, rows, columns);
+  if (targets.length !== rows) throw new DataError(`${learner}: ${targets.length} targets for ${rows} training rows`);
+  for (let i = 0; i < rows; i++) {
+    if (!Number.isFinite(targets[i]))
+      throw new DataError(`${learner}: training row ${i + 1} has target ${targets[i]}, not a finite number`);
+  }
+}
+
+function checkShape(learner: string, features: Float64Array, rows: number, columns: number): void {
+  if (!(Number.isInteger(rows) && rows >= 1)) throw new DataError(`${learner}: no training rows`);
+  if (!(Number.isInteger(columns) && columns >= 0 && features.length === rows * columns))
+    throw new DataError(
+      `${learner}: training features hold ${features.length} values, expected ${rows} rows × ${columns} columns`,
+    );
+}
+
+/**
+ * Spreads probabilities over the present classes into rows of the data set's width: row-major
+ * `rows × present.length` in, `rows × classCount` out, absent classes 0.
+ */
+export function spreadOverClasses(
+  probabilities: Float64Array,
+  rows: number,
+  present: Int32Array,
+  classCount: number,
+): Float64Array {
+  const width = present.length;
+  if (width === classCount) return probabilities;
+  const out = new Float64Array(rows * classCount);
+  for (let i = 0; i < rows; i++) {
+    for (let k = 0; k < width; k++) out[i * classCount + present[k]] = probabilities[i * width + k];
+  }
+  return out;
+}
+
+/** In place: each row of `scores` (`rows × width`) becomes its softmax. */
+export function softmaxRows(scores: Float64Array, rows: number, width: number): Float64Array {
+  for (let i = 0; i < rows; i++) {
+    const offset = i * width;
+    let max = -Infinity;
+    for (let k = 0; k < width; k++) if (scores[offset + k] > max) max = scores[offset + k];
+    let sum = 0;
+    for (let k = 0; k < width; k++) {
+      const e = Math.exp(scores[offset + k] - max);
+      scores[offset + k] = e;
+      sum += e;
+    }
+    for (let k = 0; k < width; k++) scores[offset + k] /= sum;
+  }
+  return scores;
+}

@@ -15,6 +15,51 @@ export interface Projection {
    * same refit, so differences between sizes can be taken draw by draw.
    */
   draws: number[];
+  /** trainingSize ÷ the largest measured training size (above 1: an extrapolation). */
+  extrapolationRatio?: number;
+  /**
+   * The wider interval, at `level`: the score one model trained at this size would show on a test
+   * set of `testSize` rows (the file's key), adding the scatter between training samples and the
+   * test set's sampling error to the uncertainty of the expected score.
+   */
+  singleModelLower?: number;
+  singleModelUpper?: number;
+}
+
+/** One held-back measured size predicted by one family fitted to the sizes up to `fittedUpTo`. */
+export interface BacktestPrediction {
+  family: string;
+  /** Largest training size the family was fitted to. */
+  fittedUpTo: number;
+  /** The held-back training size predicted. */
+  trainingSize: number;
+  predicted: number;
+  /** Mean score measured at `trainingSize`. */
+  measured: number;
+}
+
+/** How the families did when fitted to the smaller sizes and asked to predict the larger ones. */
+export interface BacktestSummary {
+  predictions: BacktestPrediction[];
+  /** Root mean square prediction error of each family, in the metric's units. */
+  rootMeanSquareError: Record<string, number>;
+  /**
+   * Each family's extrapolation error, from its backtest errors beyond the noise of the measured
+   * means: the standard deviation at ln(extrapolation ratio) = 1, in the metric's units; it grows as
+   * the square root of ln(extrapolation ratio).
+   */
+  extrapolationError: Record<string, number>;
+}
+
+/** The inverse question (`--target`): the smallest training size reaching a target score. */
+export interface TargetSizeAnswer {
+  target: number;
+  confidence: number;
+  /** Where the expected score first reaches the target; null when not within `searchedUpTo`. */
+  expected: number | null;
+  /** Where the target is reached with probability at least `confidence`; null when not within `searchedUpTo`. */
+  withConfidence: number | null;
+  searchedUpTo: number;
 }
 
 export interface MeasuredSummary {
@@ -39,8 +84,9 @@ export interface ForecastFile {
   metricRange?: [number, number];
   /** Rows in the data set behind the curve (when known). */
   rows?: number;
+  /** The family with the largest weight (or the one forced with `--family`). */
   family: string;
-  /** Fitted parameters of the point fit, by name. */
+  /** Fitted parameters of `family`, by name. */
   parameters: Record<string, number>;
   measured: MeasuredSummary[];
   largestMeasuredSize: number;
@@ -50,4 +96,23 @@ export interface ForecastFile {
   band: BandPoint[];
   warnings: string[];
   seed: number;
+  /** Weight of each family in the combined forecast (summing to 1), by family name. */
+  familyWeights?: Record<string, number>;
+  /** Fitted parameters of every family, by family name, in the metric's units. */
+  familyParameters?: Record<string, Record<string, number>>;
+  /** The combined forecast's asymptote (weighted over families), in the metric's units. */
+  asymptote?: number;
+  /** The families' backtest; absent when there were too few sizes for one. */
+  backtest?: BacktestSummary;
+  /** Largest projected size ÷ largest measured size. */
+  extrapolationRatio?: number;
+  /**
+   * Standard deviation of the shift shared by the whole curve for which samples happened to be
+   * collected (Nadeau and Bengio's correction), in the metric's units.
+   */
+  sampleStandardDeviation?: number;
+  /** Test rows behind the single-model interval (`singleModelLower`, `singleModelUpper`). */
+  testSize?: number;
+  /** Answers to `--target`, when one was given. */
+  targetSize?: TargetSizeAnswer;
 }

@@ -23,7 +23,7 @@ import { scaledYield, sizesToProject, yieldBounds } from "./yields.js";
 export const sensitivityChange = 0.25;
 
 /**
- * @param asymptote the point fit's asymptote when the forecast names it (parameter `a`)
+ * @param asymptote the forecast's asymptote (`asymptote`, weighted over families; older files: parameter `a`)
  */
 export function sensitivityOfRecommendation(
   resolved: ResolvedPlan,

@@ -127,7 +127,7 @@ export function weighRuns(
 
   // Value of information, sensitivity, validation size.
   const valueOfInformation = pilotInformation(resolved, context, options.simulations ?? defaultSimulations, forecast);
-  const sensitivity = sensitivityOfRecommendation(resolved, context, forecast.parameters?.a);
+  const sensitivity = sensitivityOfRecommendation(resolved, context, forecast.asymptote ?? forecast.parameters?.a);
   const validation = validationSize(forecast, plan, rows[result.recommendedRuns], context.metricRange);
 
   const domain = plan.domain ?? options.domain;

@@ -1,4 +1,4 @@
-import { mean, sampleStandardDeviation } from "simple-statistics";
+import { mean, sampleStandardDeviation, sampleVariance } from "simple-statistics";
 import { describe, expect, it } from "vitest";
 import type { CurveFile, CurvePoint } from "../../src/curve/curveFile.js";
 import { FitError, UsageError } from "../../src/errors.js";
@@ -6,6 +6,8 @@ import { forecastCurve, quantileSorted, resolveForecastOptions } from "../../src
 import { RandomStream } from "../../src/random.js";
 
 const sizes = [25, 50, 100, 200, 400, 800];
+/** The default curve's eight sizes (geometric from 10 to 800). */
+const eightSizes = [10, 19, 35, 66, 123, 230, 429, 800];
 /** A known accuracy curve, pow3 with a = 0.92, b = 1.5, c = 0.55. */
 const accuracyTruth = (n: number): number => 0.92 - 1.5 * Math.pow(n, -0.55);
 
@@ -31,11 +33,11 @@ function curveOf(points: CurvePoint[], overrides: Partial<CurveFile> = {}): Curv
 function noisyPoints(
   truth: (n: number) => number,
   seed: number,
-  { repeats = 5, folds = 5, shift = 0.01, noise = 0.03 } = {},
+  { repeats = 5, folds = 5, shift = 0.01, noise = 0.03, at = sizes } = {},
 ): CurvePoint[] {
   const random = new RandomStream(seed);
   const shifts = Array.from({ length: repeats }, () => shift * random.normal());
-  return sizes.map((trainingSize) => {
+  return at.map((trainingSize) => {
     const scores: number[] = [];
     for (let r = 0; r < repeats; r++) {
       for (let f = 0; f < folds; f++) {
@@ -46,8 +48,8 @@ function noisyPoints(
   });
 }
 
-function exactPoints(truth: (n: number) => number, fits = 25): CurvePoint[] {
-  return sizes.map((trainingSize) => ({ trainingSize, scores: Array(fits).fill(truth(trainingSize)) }));
+function exactPoints(truth: (n: number) => number, fits = 25, at = sizes): CurvePoint[] {
+  return at.map((trainingSize) => ({ trainingSize, scores: Array(fits).fill(truth(trainingSize)) }));
 }
 
 describe("forecastCurve on exact pow3 points", () => {
@@ -60,27 +62,44 @@ describe("forecastCurve on exact pow3 points", () => {
   it("recovers the true curve: the projection at 5× rows equals the truth to 1e-6", () => {
     const atFive = forecast.projections[4];
     expect(Math.abs(atFive.expected - accuracyTruth(5000))).toBeLessThan(1e-6);
+    expect(forecast.family).toBe("pow3");
     expect(forecast.parameters.a).toBeCloseTo(0.92, 6);
     expect(forecast.parameters.b).toBeCloseTo(1.5, 5);
     expect(forecast.parameters.c).toBeCloseTo(0.55, 6);
+    expect(forecast.asymptote).toBeCloseTo(0.92, 5);
   });
 
-  it("gives a degenerate interval: every bootstrap refit sees the same means", () => {
+  it("gives pow3 nearly all the weight, since it alone predicts the held-back sizes exactly", () => {
+    // Six sizes: backtest fits use at least max(4, 6 − 3) = 4 sizes, so the families with fewer than
+    // 4 parameters take part (pow3, exp3, ilog2, last).
+    const weights = forecast.familyWeights!;
+    expect(Object.keys(weights)).toEqual(["pow3", "exp3", "ilog2", "last"]);
+    expect(Object.values(weights).reduce((s, w) => s + w, 0)).toBeCloseTo(1, 12);
+    expect(weights.pow3).toBeGreaterThan(0.999);
+    expect(forecast.backtest!.rootMeanSquareError.pow3).toBeLessThan(1e-8);
+  });
+
+  it("gives a degenerate interval: no noise, no backtest error, so every draw is the same curve", () => {
     for (const projection of forecast.projections) {
       expect(projection.draws).toHaveLength(200);
-      expect(projection.upper - projection.lower).toBeLessThan(1e-9);
-      expect(Math.abs(projection.expected - projection.lower)).toBeLessThan(1e-9);
+      expect(projection.upper - projection.lower).toBeLessThan(1e-6);
+      expect(Math.abs(projection.expected - projection.lower)).toBeLessThan(1e-6);
     }
+    expect(forecast.sampleStandardDeviation).toBe(0);
   });
 
   it("summarises the measured points (mean, standard deviation, fits)", () => {
     expect(forecast.measured.map((m) => m.trainingSize)).toEqual(sizes);
     expect(forecast.measured.every((m) => m.standardDeviation === 0 && m.fits === 25)).toBe(true);
     expect(forecast.largestMeasuredSize).toBe(800);
-    expect(forecast.family).toBe("pow3");
     expect(forecast.kind).toBe("headroom-forecast");
     expect(forecast.rows).toBe(1000);
     expect(forecast.metricRange).toEqual([0, 1]);
+  });
+
+  it("records the extrapolation ratio of each projection and of the largest", () => {
+    expect(forecast.projections.map((p) => p.extrapolationRatio)).toEqual([1.25, 1.875, 2.5, 3.75, 6.25]);
+    expect(forecast.extrapolationRatio).toBe(6.25);
   });
 
   it("draws a band of 40 log-spaced sizes from the smallest measured size to the largest projection", () => {
@@ -95,6 +114,90 @@ describe("forecastCurve on exact pow3 points", () => {
   });
 });
 
+describe("forecastCurve backtest", () => {
+  // Eight sizes, as `headroom measure` gives by default: backtest fits use the 5, 6 and 7 smallest
+  // sizes (first cut max(4, 8 − 3) = 5), so each family makes 3 + 2 + 1 = 6 predictions.
+  const forecast = forecastCurve(curveOf(noisyPoints(accuracyTruth, 31, { at: eightSizes })), { draws: 50 });
+  const backtest = forecast.backtest!;
+
+  it("predicts each held-back size from fits to the smaller ones, six predictions per family", () => {
+    const families = Object.keys(forecast.familyWeights!);
+    expect(families).toEqual(["pow3", "pow4", "mmf4", "wbl4", "exp3", "ilog2", "last"]);
+    for (const family of families) {
+      const predictions = backtest.predictions.filter((p) => p.family === family);
+      expect(predictions.map((p) => [p.fittedUpTo, p.trainingSize])).toEqual([
+        [123, 230],
+        [123, 429],
+        [123, 800],
+        [230, 429],
+        [230, 800],
+        [429, 800],
+      ]);
+      for (const p of predictions) {
+        const measured = forecast.measured.find((m) => m.trainingSize === p.trainingSize)!;
+        expect(p.measured).toBe(measured.mean);
+        expect(Number.isFinite(p.predicted)).toBe(true);
+      }
+    }
+  });
+
+  it("weighs the families by the inverse of their mean squared backtest error (noise-floored)", () => {
+    const rmse = backtest.rootMeanSquareError;
+    const weights = forecast.familyWeights!;
+    // A family with a larger backtest error never gets a larger weight.
+    for (const a of Object.keys(rmse)) {
+      for (const b of Object.keys(rmse)) {
+        if (rmse[a] < rmse[b]) expect(weights[a]).toBeGreaterThanOrEqual(weights[b] - 1e-12);
+      }
+    }
+    // "last" ignores the rise of a rising curve and predicts the held-back sizes worse than pow3.
+    expect(rmse.last).toBeGreaterThan(rmse.pow3);
+    expect(weights.last).toBeLessThan(weights.pow3);
+  });
+
+  it("the last baseline's backtest prediction is the mean at the largest fitted size", () => {
+    for (const p of backtest.predictions.filter((q) => q.family === "last")) {
+      expect(p.predicted).toBeCloseTo(forecast.measured.find((m) => m.trainingSize === p.fittedUpTo)!.mean, 12);
+    }
+  });
+
+  it("has no backtest with 4 sizes or fewer, and then fits pow3 alone", () => {
+    const few = forecastCurve(curveOf(noisyPoints(accuracyTruth, 32).slice(0, 4)), { draws: 20, at: [1000] });
+    expect(few.backtest).toBeUndefined();
+    expect(few.familyWeights).toEqual({ pow3: 1 });
+  });
+});
+
+describe("forecastCurve model averaging and --family", () => {
+  // An exp3 curve, which saturates fast: 0.9 − 0.5·exp(−n/150).
+  const exp3Truth = (n: number) => 0.9 - 0.5 * Math.exp(-n / 150);
+  const curve = curveOf(exactPoints(exp3Truth, 25, eightSizes));
+
+  it("puts the weight on exp3 when the points are an exact exp3 curve, and recovers it", () => {
+    const forecast = forecastCurve(curve, { at: [2000], draws: 50 });
+    expect(forecast.familyWeights!.exp3).toBeGreaterThan(0.4);
+    expect(Math.abs(forecast.projections[0].expected - exp3Truth(2000))).toBeLessThan(1e-4);
+  });
+
+  it("uses only the forced family, which extrapolates worse here, with a wider interval from its backtest error", () => {
+    const averaged = forecastCurve(curve, { at: [2000], draws: 50 });
+    const forced = forecastCurve(curve, { at: [2000], draws: 50, family: "pow3" });
+    expect(forced.family).toBe("pow3");
+    expect(forced.familyWeights).toEqual({ pow3: 1 });
+    expect(Object.keys(forced.backtest!.rootMeanSquareError)).toEqual(["pow3"]);
+    // pow3 cannot follow exp3's fast saturation; its backtest error sets a positive extrapolation error.
+    expect(Math.abs(forced.projections[0].expected - exp3Truth(2000))).toBeGreaterThan(0.005);
+    expect(forced.backtest!.extrapolationError.pow3).toBeGreaterThan(0);
+    const width = (f: typeof forced) => f.projections[0].upper - f.projections[0].lower;
+    expect(width(forced)).toBeGreaterThan(width(averaged));
+  });
+
+  it("forces the no-gain baseline: every projection is the last measured mean", () => {
+    const forecast = forecastCurve(curve, { at: [1000, 4000], draws: 20, family: "last" });
+    for (const p of forecast.projections) expect(p.expected).toBe(exp3Truth(800));
+  });
+});
+
 describe("forecastCurve on noisy points from a known pow3", () => {
   const curve = curveOf(noisyPoints(accuracyTruth, 11));
   const forecast = forecastCurve(curve);
@@ -106,7 +209,7 @@ describe("forecastCurve on noisy points from a known pow3", () => {
     });
   });
 
-  it("has an 80% interval at 3× rows that contains the truth, with finite draws", () => {
+  it("has an 80% interval at 3× rows that contains the truth, built from the draws' quantiles", () => {
     const atThree = forecast.projections.find((p) => p.trainingSize === 3000)!;
     expect(atThree.level).toBe(0.8);
     expect(atThree.lower).toBeLessThanOrEqual(accuracyTruth(3000));
@@ -115,62 +218,115 @@ describe("forecastCurve on noisy points from a known pow3", () => {
     for (const projection of forecast.projections) {
       expect(projection.draws).toHaveLength(200);
       expect(projection.draws.every(Number.isFinite)).toBe(true);
-      // lower and upper are the 10% and 90% quantiles (type 7) of the draws.
+      // lower and upper are the 10% and 90% quantiles (type 7) of the draws, widened to hold the expected score.
       const sorted = projection.draws.slice().sort((p, q) => p - q);
-      expect(projection.lower).toBe(quantileSorted(sorted, 0.1));
-      expect(projection.upper).toBe(quantileSorted(sorted, 0.9));
+      expect(projection.lower).toBe(Math.min(projection.expected, quantileSorted(sorted, 0.1)));
+      expect(projection.upper).toBe(Math.max(projection.expected, quantileSorted(sorted, 0.9)));
     }
   });
 
-  it("covers the truth at 3× rows in most of 30 synthetic data sets", () => {
-    // Percentile bootstrap over 5 repeats undercovers a little: on these 30 data sets, with 60 draws
-    // each, 22 of 30 (0.73) intervals covered the truth during development, for a nominal 0.8. A
-    // broken bootstrap (draws not varying, or not centred) covers far less. Threshold 0.5.
+  it("widens the interval the further it extrapolates", () => {
+    // Not strictly size by size (refitted curves can cross), but from 1.25 to 6.25 times the largest size.
+    const widths = forecast.projections.map((p) => p.upper - p.lower);
+    expect(widths[4]).toBeGreaterThan(widths[0]);
+  });
+
+  it("gives a wider single-model interval around the expected-score interval", () => {
+    expect(forecast.testSize).toBe(1000);
+    for (const p of forecast.projections) {
+      expect(p.singleModelLower!).toBeLessThanOrEqual(p.lower);
+      expect(p.singleModelUpper!).toBeGreaterThanOrEqual(p.upper);
+      expect(p.singleModelUpper! - p.singleModelLower!).toBeGreaterThan(p.upper - p.lower);
+    }
+  });
+
+  it("covers the truth at 3× rows in most of 30 synthetic data sets, without being uselessly wide", () => {
+    // 30 data sets, 60 draws each. During development 27 of 30 (0.9) intervals covered the truth, with
+    // a mean width of about 4 points. A broken interval (draws not varying, or not centred) covers far
+    // less; one that ignored the data would be far wider. Thresholds: coverage ≥ 0.6, width ≤ 0.1.
     let covered = 0;
+    let width = 0;
     const dataSets = 30;
     for (let d = 0; d < dataSets; d++) {
       const projection = forecastCurve(curveOf(noisyPoints(accuracyTruth, 100 + d)), { draws: 60, at: [3000] })
         .projections[0];
       if (projection.lower <= accuracyTruth(3000) && accuracyTruth(3000) <= projection.upper) covered++;
+      width += (projection.upper - projection.lower) / dataSets;
     }
-    expect(covered / dataSets).toBeGreaterThanOrEqual(0.5);
+    expect(covered / dataSets).toBeGreaterThanOrEqual(0.6);
+    expect(width).toBeLessThan(0.1);
   });
 });
 
-describe("forecastCurve bootstrap resamples whole repeats", () => {
-  // Each repeat adds one constant shift at every size and nothing else, so a refit is exactly
-  // pow3(truth) + (mean of the drawn shifts): draw j must carry the same shift at every size.
+describe("forecastCurve uncertainty parts", () => {
+  // Each repeat adds one constant shift at every size and nothing else, so every bootstrap refit of
+  // pow3 is exactly pow3(truth) + (mean of the drawn shifts), and the backtest errors of pow3 are 0.
   const shifts = [-0.02, -0.005, 0, 0.01, 0.03];
   const points = sizes.map((trainingSize) => ({
     trainingSize,
     scores: shifts.flatMap((s) => Array(5).fill(accuracyTruth(trainingSize) + s)),
   }));
-  const forecast = forecastCurve(curveOf(points), { at: [1000, 5000] });
+  // pow3 alone: its backtest errors are 0, so its draws carry no extrapolation error.
+  const forecast = forecastCurve(curveOf(points), { at: [1000, 5000], family: "pow3" });
 
-  it("draw j of every projection comes from the same resample", () => {
+  it("draw j of every projection comes from the same curve: the same shift at every size", () => {
     const [near, far] = forecast.projections;
     near.draws.forEach((draw, j) => {
       const shiftNear = draw - accuracyTruth(1000);
       const shiftFar = far.draws[j] - accuracyTruth(5000);
       expect(Math.abs(shiftNear - shiftFar)).toBeLessThan(1e-6);
-      // The shift is a mean of 5 drawn repeat shifts: a multiple of 0.001 here.
-      expect(Math.abs(shiftNear * 5000 - Math.round(shiftNear * 5000))).toBeLessThan(1e-3);
     });
   });
 
-  it("spreads the draws like the bootstrap mean of the repeat shifts", () => {
-    // Standard deviation of the bootstrap mean of R values: sqrt(Σ(s − s̄)²/R) / sqrt(R).
+  it("adds the Nadeau–Bengio shift to the bootstrap: the draws' variance is their sum", () => {
+    // Scores at the largest size: J = 25 fits, variance σ²; test folds of rows / folds = 200 rows
+    // against 800 training rows. Nadeau and Bengio's corrected variance of the mean is
+    // (1/J + 200/800)·σ²; resampling repeats supplies var(repeat means)/R of it, the shift the rest.
+    const scores = points[points.length - 1].scores;
+    const corrected = (1 / 25 + 200 / 800) * sampleVariance(scores);
+    const repeatMeans = shifts.map((s) => accuracyTruth(800) + s);
+    const resampling = sampleVariance(repeatMeans) / 5;
+    expect(forecast.sampleStandardDeviation!).toBeCloseTo(Math.sqrt(corrected - resampling), 12);
+    // The bootstrap mean of 5 repeats drawn with replacement has variance Σ(s − s̄)²/5 / 5.
     const shiftMean = mean(shifts);
-    const expectedSd = Math.sqrt(shifts.reduce((s, v) => s + (v - shiftMean) ** 2, 0) / 5) / Math.sqrt(5);
+    const bootstrapVariance = shifts.reduce((s, v) => s + (v - shiftMean) ** 2, 0) / 5 / 5;
+    const expectedSd = Math.sqrt(bootstrapVariance + (corrected - resampling));
     const drawSd = sampleStandardDeviation(forecast.projections[0].draws);
     // 200 draws estimate a standard deviation to about ±5% (1/sqrt(2·200)); allow 20%.
     expect(Math.abs(drawSd / expectedSd - 1)).toBeLessThan(0.2);
   });
 
-  it("gives the same forecast when the repeats are given by repeatOfScore instead of folds", () => {
-    const withLabels = points.map((p) => ({ ...p, repeatOfScore: p.scores.map((_, s) => Math.floor(s / 5)) }));
-    const other = forecastCurve(curveOf(withLabels, { folds: undefined }), { at: [1000, 5000] });
-    expect(other).toEqual(forecast);
+  it("gives the same forecast when the repeats are given by repeatOfScore, whatever the order of the scores", () => {
+    // Reverse each size's scores and label them: repeatOfScore, not the position, says the repeat.
+    const labelled = points.map((p) => ({
+      ...p,
+      scores: p.scores.slice().reverse(),
+      repeatOfScore: p.scores.map((_, s) => 4 - Math.floor(s / 5)),
+    }));
+    const other = forecastCurve(curveOf(labelled), { at: [1000, 5000], family: "pow3" });
+    // Equal up to the round-off of summing the scores in another order.
+    other.projections.forEach((p, i) => {
+      const q = forecast.projections[i];
+      expect(p.expected).toBeCloseTo(q.expected, 12);
+      expect(p.lower).toBeCloseTo(q.lower, 10);
+      expect(p.upper).toBeCloseTo(q.upper, 10);
+      p.draws.forEach((draw, j) => expect(draw).toBeCloseTo(q.draws[j], 10));
+    });
+    expect(other.sampleStandardDeviation).toBeCloseTo(forecast.sampleStandardDeviation!, 14);
+  });
+
+  it("narrows the single-model interval as the test set grows, down to the expected-score interval's scale", () => {
+    const curve = curveOf(noisyPoints(accuracyTruth, 12));
+    const small = forecastCurve(curve, { at: [3000], draws: 100, testSize: 20 }).projections[0];
+    const large = forecastCurve(curve, { at: [3000], draws: 100, testSize: 100_000 }).projections[0];
+    const half = (p: typeof small) => (p.singleModelUpper! - p.singleModelLower!) / 2;
+    expect(half(small)).toBeGreaterThan(half(large));
+    // With 20 test rows the binomial sd alone is sqrt(p(1 − p)/20) ≈ 0.07; a central 80% interval
+    // of it spans ±1.28 sd. Allow 10% for the clamping at 1 and the simulation.
+    const p = small.expected;
+    expect(half(small)).toBeGreaterThan(0.9 * 1.2816 * Math.sqrt((p * (1 - p)) / 20));
+    expect(small.lower).toBe(large.lower);
+    expect(small.upper).toBe(large.upper);
   });
 });
 
@@ -188,9 +344,9 @@ describe("forecastCurve orientation and bounds", () => {
     expect(expected[0]).toBeLessThan(largestMeasuredMean);
     for (let k = 1; k < expected.length; k++) expect(expected[k]).toBeLessThan(expected[k - 1]);
     // The asymptote in score units lies below every projection and near the truth 0.3.
-    expect(forecast.parameters.a).toBeLessThan(expected[expected.length - 1]);
-    expect(forecast.parameters.a).toBeGreaterThan(0.2);
-    expect(forecast.parameters.a).toBeLessThan(0.4);
+    expect(forecast.asymptote!).toBeLessThan(expected[expected.length - 1]);
+    expect(forecast.asymptote!).toBeGreaterThan(0.2);
+    expect(forecast.asymptote!).toBeLessThan(0.4);
     const atThree = forecast.projections.find((p) => p.trainingSize === 3000)!;
     expect(atThree.lower).toBeLessThanOrEqual(logLoss(3000));
     expect(atThree.upper).toBeGreaterThanOrEqual(logLoss(3000));
@@ -204,13 +360,76 @@ describe("forecastCurve orientation and bounds", () => {
       ...p,
       scores: p.scores.map((s) => Math.min(1, s)),
     }));
-    const forecast = forecastCurve(curveOf(points), { at: [1000, 10_000, 100_000] });
+    const forecast = forecastCurve(curveOf(points), { at: [1000, 10_000, 100_000], testSize: 10 });
     const values = [
-      ...forecast.projections.flatMap((p) => [p.expected, p.lower, p.upper, ...p.draws]),
+      ...forecast.projections.flatMap((p) => [
+        p.expected,
+        p.lower,
+        p.upper,
+        p.singleModelLower!,
+        p.singleModelUpper!,
+        ...p.draws,
+      ]),
       ...forecast.band.flatMap((b) => [b.expected, b.lower, b.upper]),
+      forecast.asymptote!,
     ];
     expect(values.every((v) => v >= 0 && v <= 1)).toBe(true);
-    expect(forecast.parameters.a).toBeLessThanOrEqual(1);
+    for (const parameters of Object.values(forecast.familyParameters!)) {
+      expect(Object.values(parameters).every(Number.isFinite)).toBe(true);
+    }
+  });
+});
+
+describe("forecastCurve: the smallest training size reaching a target", () => {
+  const exact = curveOf(exactPoints(accuracyTruth));
+
+  it("solves the expected curve for the target: n = (b / (a − target))^(1/c), rounded up", () => {
+    // pow3 0.92 − 1.5·n^(−0.55) reaches 0.88 at n = (1.5 / 0.04)^(1/0.55) ≈ 727.5 (closed form).
+    const forecast = forecastCurve(exact, { at: [1000], draws: 50, target: 0.88 });
+    const exactSize = Math.pow(1.5 / 0.04, 1 / 0.55);
+    expect(forecast.targetSize!.expected).toBe(Math.ceil(exactSize));
+    // Every draw is the same curve here, so any confidence gives the same size.
+    expect(forecast.targetSize!.withConfidence).toBe(Math.ceil(exactSize));
+    expect(forecast.targetSize!.target).toBe(0.88);
+    expect(forecast.targetSize!.confidence).toBe(0.8);
+  });
+
+  it("answers null for a target above the asymptote, and searches up to 10,000 × the largest size", () => {
+    const forecast = forecastCurve(exact, { at: [1000], draws: 50, target: 0.95 });
+    expect(forecast.targetSize).toEqual({
+      target: 0.95,
+      confidence: 0.8,
+      expected: null,
+      withConfidence: null,
+      searchedUpTo: 8_000_000,
+    });
+  });
+
+  it("answers the smallest measured size for a target already reached there", () => {
+    const forecast = forecastCurve(exact, { at: [1000], draws: 50, target: 0.5 });
+    expect(forecast.targetSize!.expected).toBe(25);
+  });
+
+  it("asks for more samples to reach a target with higher confidence on a noisy curve", () => {
+    const curve = curveOf(noisyPoints(accuracyTruth, 13));
+    const at = (confidence: number) =>
+      forecastCurve(curve, { at: [1000], draws: 100, target: 0.885, confidence }).targetSize!;
+    const likely = at(0.6);
+    const sure = at(0.95);
+    expect(likely.expected).not.toBeNull();
+    expect(sure.withConfidence ?? Infinity).toBeGreaterThan(likely.withConfidence!);
+    expect(sure.withConfidence ?? Infinity).toBeGreaterThan(sure.expected!);
+  });
+
+  it("reads the target in the metric's own direction for a lower-is-better metric", () => {
+    const logLoss = (n: number) => 0.3 + 2 * Math.pow(n, -0.5);
+    const curve = curveOf(exactPoints(logLoss), {
+      metric: "log loss",
+      higherIsBetter: false,
+      metricRange: [0, Infinity],
+    });
+    // 0.3 + 2/sqrt(n) ≤ 0.35 from n = (2 / 0.05)² = 1600 on.
+    expect(forecastCurve(curve, { at: [1000], draws: 20, target: 0.35 }).targetSize!.expected).toBe(1600);
   });
 });
 
@@ -227,29 +446,55 @@ describe("forecastCurve determinism", () => {
     expect(first.seed).toBe(1);
     expect(second.seed).toBe(2);
     expect(first.projections[0].draws).not.toEqual(second.projections[0].draws);
-    expect(first.projections[0].expected).toBe(second.projections[0].expected);
   });
 
-  it("runs 200 bootstrap refits in well under a second", () => {
-    // Budget 1 s on a 2-core machine (measured ~0.1–0.3 s); the assertion allows 2 s for a loaded CI
-    // machine.
+  it("forecasts a default eight-size curve with 200 draws in well under two seconds", () => {
+    // Measured ~0.2–0.4 s on a loaded 2-core machine; the assertion allows 2 s.
+    const eight = curveOf(noisyPoints(accuracyTruth, 22, { at: eightSizes, repeats: 10 }), { repeats: 10 });
+    forecastCurve(eight, { draws: 20 });
     const started = performance.now();
-    forecastCurve(curve, { draws: 200 });
+    forecastCurve(eight, { draws: 200 });
     expect(performance.now() - started).toBeLessThan(2000);
   });
 });
 
 describe("forecastCurve warnings", () => {
-  const warningsOf = (curve: CurveFile, at?: number[]) => forecastCurve(curve, { at, draws: 50 }).warnings;
+  const warningsOf = (curve: CurveFile, at?: number[], family?: string) =>
+    forecastCurve(curve, { at, draws: 50, family }).warnings;
 
-  it("warns about fewer than 4 training sizes", () => {
+  it("warns about fewer than 5 training sizes, and that one unchecked family was fitted", () => {
     const points = exactPoints(accuracyTruth).slice(0, 3);
-    expect(warningsOf(curveOf(points), [200])).toEqual([expect.stringMatching(/^Only 3 training sizes/)]);
+    expect(warningsOf(curveOf(points), [200])).toEqual([
+      expect.stringMatching(/^Only 3 training sizes .* one family was fitted unchecked/),
+    ]);
   });
 
-  it("warns when the scores do not improve with training size", () => {
+  it("warns when the scores get worse with training size", () => {
     const points = exactPoints((n) => 0.9 - 0.01 * Math.log(n));
-    expect(warningsOf(curveOf(points), [1000]).some((w) => w.includes("does not improve"))).toBe(true);
+    expect(warningsOf(curveOf(points), [1000]).some((w) => w.includes("does not improve: it gets worse"))).toBe(true);
+  });
+
+  it("warns when the scores do not rise beyond their noise", () => {
+    const points = noisyPoints(() => 0.8, 7, { noise: 0.05 });
+    expect(warningsOf(curveOf(points), [1000]).some((w) => w.includes("by more than its noise"))).toBe(true);
+  });
+
+  it("warns when the curve dips between two sizes by more than its noise", () => {
+    const points = exactPoints(accuracyTruth).map((p) =>
+      p.trainingSize === 200 ? { ...p, scores: p.scores.map((s) => s - 0.05) } : p,
+    );
+    expect(warningsOf(curveOf(points), [1000])).toEqual([
+      expect.stringMatching(
+        /^The curve is not monotone: the mean score gets worse from training size 100 \(0.8009\) to 200/,
+      ),
+    ]);
+  });
+
+  it("warns when the score is already at the metric's best value", () => {
+    const points = exactPoints((n) => Math.min(1, 0.9 + n / 4000));
+    expect(
+      warningsOf(curveOf(points), [1000]).some((w) => w.includes("already at the metric's best possible value")),
+    ).toBe(true);
   });
 
   it("warns about extrapolating beyond 5× the largest measured size, and not below it", () => {
@@ -265,11 +510,21 @@ describe("forecastCurve warnings", () => {
     ]);
   });
 
-  it("warns when the repeat of each score is unknown and resamples single scores", () => {
+  it("warns when the repeat of each score and the test-fold size are unknown", () => {
     const curve = curveOf(noisyPoints(accuracyTruth, 4), { folds: undefined });
     const forecast = forecastCurve(curve, { at: [1000], draws: 50 });
-    expect(forecast.warnings).toEqual([expect.stringMatching(/does not say which repeat/)]);
+    expect(forecast.warnings).toEqual([
+      expect.stringMatching(/does not say which repeat/),
+      expect.stringMatching(/does not say how large its test folds were/),
+    ]);
     expect(forecast.projections[0].upper).toBeGreaterThan(forecast.projections[0].lower);
+  });
+
+  it("warns when a forced family has too many parameters to be backtested", () => {
+    const points = noisyPoints(accuracyTruth, 5).slice(0, 5);
+    expect(warningsOf(curveOf(points), [1000], "pow4")).toEqual([
+      expect.stringMatching(/^The pow4 family has 4 parameters, too many to check/),
+    ]);
   });
 });
 
@@ -310,6 +565,14 @@ describe("forecastCurve input checks", () => {
     { options: { draws: 0 }, message: /draws must be an integer/ },
     { options: { seed: 1.5 }, message: /seed must be an integer/ },
     { options: { at: [1000, -5] }, message: /projection size -5 is not a positive number/ },
+    { options: { family: "pow9" }, message: /--family unknown curve family "pow9"; known families: pow3, pow4/ },
+    {
+      options: { target: 90 },
+      message: /target 90 is outside the accuracy range \[0, 1\] \(give accuracy as a fraction/,
+    },
+    { options: { target: 0.9, confidence: 1 }, message: /confidence must be between 0 and 1/ },
+    { options: { testSize: 0 }, message: /test size must be a whole number of at least 1, not 0/ },
+    { options: { testSize: 2.5 }, message: /test size must be a whole number of at least 1, not 2.5/ },
   ])("throws UsageError for options $options", ({ options, message }) => {
     const curve = curveOf(exactPoints(accuracyTruth));
     expect(() => forecastCurve(curve, options)).toThrow(UsageError);
@@ -319,6 +582,7 @@ describe("forecastCurve input checks", () => {
   it("projects to multiples of the largest measured size when rows are unknown", () => {
     const resolved = resolveForecastOptions(curveOf(exactPoints(accuracyTruth), { rows: 0 }));
     expect(resolved.at).toEqual([800, 1200, 1600, 2400, 4000]);
+    expect(resolved.testSize).toBe(800);
   });
 
   it("sorts and de-duplicates the projection sizes it is given", () => {

@@ -1,0 +1,163 @@
+/**
+ * Draws of the learning curve: plausible curves whose spread at each size is the forecast's
+ * uncertainty. Draw j is one curve, evaluated at every projected size, so differences between sizes
+ * can be taken draw by draw.
+ *
+ * Draw j:
+ * 1. takes a family: draws are shared out among the families in proportion to their weights
+ *    (largest remainder), interleaved so that any prefix of the draws keeps the proportions. The
+ *    mixture of families is Bayesian model averaging's predictive distribution with the backtest
+ *    weights standing in for posterior model probabilities (Hoeting, Madigan, Raftery and Volinsky
+ *    1999, "Bayesian model averaging: a tutorial");
+ * 2. resamples whole repeats with replacement, the same repeats at every size (individual scores at a
+ *    size with no repeat structure), recomputes the means and refits that family from its point
+ *    fit's parameters (then from its usual starts; a draw whose refit fails both ways is dropped):
+ *    the bootstrap of Efron and Tibshirani (1993) over the noise between splits;
+ * 3. adds one normal shift shared by every size, for which samples were collected
+ *    (`sampleShift`, Nadeau and Bengio 2003);
+ * 4. adds the family's extrapolation error, τ · sqrt(ln(n / largest measured size)) times one
+ *    standard normal shared by every size beyond the largest measured one (`assessFamilies`).
+ *
+ * Deterministic for a seed: draw j uses `new RandomStream(seed, j)` for its repeats and normals.
+ */
+import { FitError } from "../errors.js";
+import {
+  fitCurveFamily,
+  orientedRange,
+  type CurveFamily,
+  type FamilyFit,
+  type OrientedPoint,
+} from "../fit/families.js";
+import { RandomStream } from "../random.js";
+import type { AssessedFamily } from "./backtest.js";
+import type { MeasuredCurve } from "./measuredCurve.js";
+import { repeatLabels, resampledPoints } from "./resampling.js";
+
+/** One drawn curve in oriented units. */
+export interface DrawnCurve {
+  family: CurveFamily;
+  parameters: number[];
+  /** The shared shift for which samples were collected. */
+  shift: number;
+  /** τ times a standard normal: the extrapolation error at ln(n / largest measured size) = 1. */
+  extrapolation: number;
+}
+
+export interface DrawnCurves {
+  curves: DrawnCurve[];
+  requested: number;
+  /** Refits that failed from the point fit's parameters and succeeded from the family's starts. */
+  retried: number;
+  dropped: number;
+}
+
+/** Steps 1–4 of the file comment. @throws FitError when every refit fails. */
+export function drawCurves(
+  measured: MeasuredCurve,
+  families: readonly AssessedFamily[],
+  shiftStandardDeviation: number,
+  options: { seed: number; draws: number },
+): DrawnCurves {
+  const { orientation } = measured;
+  const assignment = shareDraws(
+    families.map((f) => f.weight),
+    options.draws,
+  );
+  const labels = repeatLabels(measured);
+  const result: DrawnCurves = { curves: [], requested: options.draws, retried: 0, dropped: 0 };
+  for (let j = 0; j < options.draws; j++) {
+    const assessed = families[assignment[j]];
+    const random = new RandomStream(options.seed, j);
+    // A size none of whose repeats was drawn sits this refit out.
+    const resampled = resampledPoints(measured, labels, random).filter((p): p is OrientedPoint => p !== null);
+    const shift = shiftStandardDeviation * random.normal();
+    const extrapolation = assessed.extrapolationError * random.normal();
+    const refit = refitFamily(assessed.family, resampled, orientation, assessed.fit, result);
+    if (refit === null) {
+      result.dropped++;
+      continue;
+    }
+    result.curves.push({ family: assessed.family, parameters: refit.parameters, shift, extrapolation });
+  }
+  if (result.curves.length === 0) {
+    throw new FitError(
+      `forecast: none of the ${options.draws} bootstrap refits succeeded; the interval cannot be estimated`,
+    );
+  }
+  return result;
+}
+
+/** A draw's oriented value at size n, clamped to the oriented range when there is one. */
+export function drawnValue(
+  curve: DrawnCurve,
+  trainingSize: number,
+  largestMeasured: number,
+  range?: [number, number],
+): number {
+  const distance = trainingSize > largestMeasured ? Math.sqrt(Math.log(trainingSize / largestMeasured)) : 0;
+  const value = curve.family.model(trainingSize, curve.parameters) + curve.shift + curve.extrapolation * distance;
+  return range === undefined ? value : Math.min(range[1], Math.max(range[0], value));
+}
+
+/** The oriented range of a measured curve (for `drawnValue`). */
+export function measuredRange(measured: MeasuredCurve): [number, number] | undefined {
+  return orientedRange(measured.orientation);
+}
+
+function refitFamily(
+  family: CurveFamily,
+  points: readonly OrientedPoint[],
+  orientation: MeasuredCurve["orientation"],
+  pointFit: FamilyFit,
+  result: DrawnCurves,
+): FamilyFit | null {
+  if (points.length < family.parameterNames.length) return null;
+  try {
+    return fitCurveFamily(family, points, orientation, { startsOnly: [pointFit.parameters] });
+  } catch (error) {
+    if (!(error instanceof FitError)) throw error;
+  }
+  try {
+    const refit = fitCurveFamily(family, points, orientation);
+    result.retried++;
+    return refit;
+  } catch (error) {
+    if (!(error instanceof FitError)) throw error;
+    return null;
+  }
+}
+
+/**
+ * Family index of each draw: counts by the largest-remainder method, interleaved by always giving
+ * the next draw to the family furthest behind its share (so every prefix keeps the proportions).
+ */
+export function shareDraws(weights: readonly number[], draws: number): number[] {
+  const exact = weights.map((w) => w * draws);
+  const counts = exact.map(Math.floor);
+  let missing = draws - counts.reduce((s, v) => s + v, 0);
+  const byRemainder = exact
+    .map((e, k) => ({ k, remainder: e - Math.floor(e) }))
+    .sort((p, q) => q.remainder - p.remainder || p.k - q.k);
+  for (const { k } of byRemainder) {
+    if (missing <= 0) break;
+    counts[k]++;
+    missing--;
+  }
+  const given = counts.map(() => 0);
+  const assignment: number[] = [];
+  for (let j = 0; j < draws; j++) {
+    let best = -1;
+    let bestDeficit = -Infinity;
+    counts.forEach((count, k) => {
+      if (given[k] >= count) return;
+      const deficit = (count * (j + 1)) / draws - given[k];
+      if (deficit > bestDeficit) {
+        bestDeficit = deficit;
+        best = k;
+      }
+    });
+    given[best]++;
+    assignment.push(best);
+  }
+  return assignment;
+}

@@ -1,0 +1,74 @@
+/**
+ * `headroom forecast`'s options, through the in-process command line: --family, --target,
+ * --confidence and --test-size reach forecast.json, the text summary labels both intervals, and bad
+ * values give one line and the usage exit code.
+ */
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+import { run } from "../../src/cli/program.js";
+import { ExitCode } from "../../src/errors.js";
+
+function capture() {
+  const out: string[] = [];
+  const err: string[] = [];
+  return {
+    io: { stdout: (t: string) => void out.push(t), stderr: (t: string) => void err.push(t), stderrIsTerminal: false },
+    stdout: () => out.join(""),
+    stderr: () => err.join(""),
+  };
+}
+
+const dir = mkdtempSync(join(tmpdir(), "headroom-forecast-options-"));
+const curveFile = join(dir, "curve.csv");
+// Exact points of 0.92 − 1.5·n^(−0.55), three repeats of one score each.
+const lines = ["trainingSize,score,repeat"];
+for (const n of [25, 50, 100, 200, 400, 800]) {
+  for (let r = 0; r < 3; r++) lines.push(`${n},${(0.92 - 1.5 * Math.pow(n, -0.55)).toFixed(12)},${r}`);
+}
+writeFileSync(curveFile, `${lines.join("\n")}\n`);
+
+describe("headroom forecast options", () => {
+  it("passes --family, --target, --confidence and --test-size to forecast.json", async () => {
+    const out = join(dir, "forecast.json");
+    const c = capture();
+    const argv = ["forecast", curveFile, "--at", "1600,3200", "--family", "pow3", "--target", "0.88"];
+    expect(await run([...argv, "--confidence", "0.9", "--test-size", "250", "--out", out], c.io)).toBe(ExitCode.ok);
+    const forecast = JSON.parse(readFileSync(out, "utf8"));
+    expect(forecast.family).toBe("pow3");
+    expect(forecast.familyWeights).toEqual({ pow3: 1 });
+    expect(forecast.testSize).toBe(250);
+    // 0.92 − 1.5·n^(−0.55) = 0.88 at n = (1.5/0.04)^(1/0.55) ≈ 727.5, so 728 rows.
+    expect(forecast.targetSize).toMatchObject({ target: 0.88, confidence: 0.9, expected: 728, withConfidence: 728 });
+    expect(forecast.projections.map((p: { trainingSize: number }) => p.trainingSize)).toEqual([1600, 3200]);
+  });
+
+  it("prints a table labelling both intervals, the family weights and the target's answer", async () => {
+    const c = capture();
+    expect(await run(["forecast", curveFile, "--at", "1600", "--target", "0.88", "--test-size", "250"], c.io)).toBe(
+      ExitCode.ok,
+    );
+    const text = c.stdout();
+    expect(text).toContain("80% interval (expected score)");
+    expect(text).toContain("80% interval (one model, 250 test rows)");
+    expect(text).toMatch(/^1600\t2\.0\t0\.894\d\t\[0\.894\d, 0\.894\d\]\t\[0\.8\d+, 0\.9\d+\]$/m);
+    expect(text).toMatch(/^families: pow3 \d+%/m);
+    expect(text).toContain("target 0.88: expected score reaches it at training size 728");
+    // The CSV does not say its folds: the assumption is a warning on stderr, not on stdout.
+    expect(c.stderr()).toMatch(/^warning: The curve does not say how large its test folds were/m);
+  });
+
+  it.each([
+    [["--family", "pow9"], /^headroom: forecast: --family unknown curve family "pow9"; known families: pow3, pow4/],
+    [["--target", "high"], /^headroom: --target: 'high' is not a number$/m],
+    [["--target", "85"], /^headroom: forecast: target 85 is outside the score range \[0, 1\]/],
+    [["--confidence", "1.5"], /^headroom: --confidence: '1.5' is not a probability between 0 and 1$/m],
+    [["--test-size", "0"], /^headroom: --test-size: '0' is not a whole number of at least 1$/m],
+  ])("%j gives one line and the usage exit code", async (extra, line) => {
+    const c = capture();
+    expect(await run(["forecast", curveFile, "--at", "1600", ...extra], c.io)).toBe(ExitCode.usage);
+    expect(c.stderr()).toMatch(line);
+    expect(c.stderr().trimEnd().split("\n")).toHaveLength(1);
+  });
+});

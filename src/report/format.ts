@@ -34,12 +34,13 @@ export function formatCount(value: number): string {
 }
 
 /**
- * An amount of money: whole units from 1,000 up, otherwise up to two decimals without trailing
- * zeros; the currency code or symbol follows when given ("66,000 EUR").
+ * An amount of money in whole units ("66,000 EUR", "−842"); only amounts under 100 that are not
+ * whole keep up to two decimals without trailing zeros ("12.5 USD"), as a cost per sample can be.
+ * The currency code or symbol follows when given.
  */
 export function formatMoney(value: number, currency?: string): string {
   let text: string;
-  if (Math.abs(value) >= 1000 || Number.isInteger(value)) {
+  if (Math.abs(value) >= 100 || Number.isInteger(value)) {
     text = formatNumber(value, 0);
   } else {
     text = formatNumber(value, 2).replace(/\.?0+$/, "");
@@ -134,6 +135,19 @@ export function formatExactScore(value: number, info: MetricInfo): string {
 }
 
 const numberWords = ["no", "one", "two", "three", "four", "five", "six", "seven", "eight", "nine", "ten"];
+const ordinalWords = [
+  "zeroth",
+  "first",
+  "second",
+  "third",
+  "fourth",
+  "fifth",
+  "sixth",
+  "seventh",
+  "eighth",
+  "ninth",
+  "tenth",
+];
 
 /** A small count in words ("three"), larger ones as digits ("12"). */
 export function countInWords(count: number): string {
@@ -145,4 +159,14 @@ export function moreRuns(runs: number): string {
   const words = countInWords(runs);
   const phrase = `${words} more ${runs === 1 ? "run" : "runs"}`;
   return phrase.charAt(0).toUpperCase() + phrase.slice(1);
+}
+
+/** An ordinal in words up to ten ("third"), beyond as digits with the English suffix ("12th", "21st"). */
+export function ordinalInWords(position: number): string {
+  if (Number.isInteger(position) && position >= 0 && position < ordinalWords.length) return ordinalWords[position];
+  const lastTwo = Math.abs(position) % 100;
+  const last = Math.abs(position) % 10;
+  const suffix =
+    lastTwo >= 11 && lastTwo <= 13 ? "th" : last === 1 ? "st" : last === 2 ? "nd" : last === 3 ? "rd" : "th";
+  return `${formatCount(position)}${suffix}`;
 }

@@ -82,7 +82,7 @@ describe("metrics in words", () => {
     ["accuracy", true, undefined, "Accuracy", true], // range [0, 1] from src/curve/metrics.ts
     ["balanced_accuracy", true, [0, 1], "Balanced accuracy", true],
     ["log_loss", false, undefined, "Log loss", false],
-    ["r2", true, [-Infinity, 1] as [number, number], "R2", false],
+    ["r2", true, [-Infinity, 1] as [number, number], "R²", false], // the label in src/curve/metrics.ts
   ])("describeMetric(%s)", (metric, higherIsBetter, range, title, isFraction) => {
     const info = describeMetric(metric, higherIsBetter, range);
     expect(info.title).toBe(title);

@@ -5,14 +5,23 @@
  * 0.9 − 2/20 = 0.8 exactly), with fixed offsets for the single fits, rounded to four decimals. The
  * decision rows follow the net-value rule of decision.json: valuePerPoint × 100 × (expected − expected
  * now) − cost, with valuePerPoint 40,000 and 22,000 per run, e.g. two runs: 4,000,000 × (0.8529 −
- * 0.8368) − 44,000 = 64,400 − 44,000 = 20,400.
+ * 0.8368) − 44,000 = 64,400 − 44,000 = 20,400. The net values' intervals and chances are invented
+ * (they come from forecast draws the sample does not have); the sensitivity outcomes are worked by
+ * hand from the rows where the factor is a plan key (see `sampleSensitivity`).
  */
 import type { TopLevelSpec } from "vega-lite";
 import type { CurveFile } from "../../src/curve/curveFile.js";
 import type { ForecastFile } from "../../src/forecast/forecastFile.js";
-import { learningCurveChart, valueChart } from "../../src/report/charts.js";
+import {
+  backtestChart,
+  learningCurveChart,
+  netValueChart,
+  scoreChart,
+  sensitivityChart,
+  type BacktestInput,
+} from "../../src/report/charts.js";
 import type { ReportInput } from "../../src/report/html.js";
-import type { DecisionFile, DecisionRow } from "../../src/weigh/decisionFile.js";
+import type { DecisionFile, DecisionRow, SensitivityEntry } from "../../src/weigh/decisionFile.js";
 
 export const sampleCurve: CurveFile = {
   kind: "headroom-curve",
@@ -43,7 +52,7 @@ export const sampleForecast: ForecastFile = {
   higherIsBetter: true,
   metricRange: [0, 1],
   rows: 1000,
-  family: "inversePowerLaw",
+  family: "pow3",
   parameters: { a: 0.9, b: 2, c: 0.5 },
   measured: [
     { trainingSize: 100, mean: 0.7, standardDeviation: 0.0217, fits: 6 },
@@ -125,6 +134,12 @@ const sampleRows: DecisionRow[] = [
     months: 0,
     expectedNetValue: 0,
     affordable: true,
+    marginalGain: 0,
+    netValueLower: 0,
+    netValueUpper: 0,
+    probabilityNetPositive: 0,
+    withinBudget: true,
+    withinDeadline: true,
   },
   {
     runs: 1,
@@ -137,6 +152,12 @@ const sampleRows: DecisionRow[] = [
     months: 3,
     expectedNetValue: 16800,
     affordable: true,
+    marginalGain: 0.0097,
+    netValueLower: -2000,
+    netValueUpper: 36000,
+    probabilityNetPositive: 0.88,
+    withinBudget: true,
+    withinDeadline: true,
   },
   {
     runs: 2,
@@ -149,6 +170,12 @@ const sampleRows: DecisionRow[] = [
     months: 6,
     expectedNetValue: 20400,
     affordable: true,
+    marginalGain: 0.0064,
+    netValueLower: -6000,
+    netValueUpper: 47000,
+    probabilityNetPositive: 0.81,
+    withinBudget: true,
+    withinDeadline: true,
   },
   {
     runs: 3,
@@ -161,6 +188,12 @@ const sampleRows: DecisionRow[] = [
     months: 9,
     expectedNetValue: 16400,
     affordable: true,
+    marginalGain: 0.0045,
+    netValueLower: -15000,
+    netValueUpper: 48000,
+    probabilityNetPositive: 0.7,
+    withinBudget: true,
+    withinDeadline: true,
   },
   {
     runs: 4,
@@ -173,6 +206,12 @@ const sampleRows: DecisionRow[] = [
     months: 12,
     expectedNetValue: 8000,
     affordable: false,
+    marginalGain: 0.0034,
+    netValueLower: -30000,
+    netValueUpper: 46000,
+    probabilityNetPositive: 0.58,
+    withinBudget: false,
+    withinDeadline: true,
   },
 ];
 
@@ -200,20 +239,71 @@ export const sampleDecision: DecisionFile = {
     runsToTarget: "Four runs are the fewest with at least an 80% chance of reaching 85%, but they exceed the budget.",
   },
   table: sampleRows,
+  sensitivity: sampleSensitivity(),
 };
 
-/** The same plan with a point worth only 10,000: no run repays its cost, so stopping is recommended. */
+/**
+ * The sensitivity of `sampleDecision`, worked by hand from its rows (score gain in points =
+ * (net value + cost) ÷ 40,000: 0.97, 1.61, 2.06, 2.40 for 1 to 4 runs; budget 80,000):
+ * - cost per run 16,500: 3 runs, 82,400 − 49,500 = 32,900 (2 runs: 31,400; 4 runs: 30,000);
+ *   27,500: 1 run, 38,800 − 27,500 = 11,300 (2 runs: 9,400; 3 runs over budget);
+ * - value per point 30,000: 1 run, 29,100 − 22,000 = 7,100 (2 runs: 4,300);
+ *   50,000: 3 runs, 103,000 − 66,000 = 37,000 (2 runs: 36,500).
+ * The asymptote's and the yield's outcomes are invented (they need the forecast's draws), and the
+ * yield's lower side is missing, as when the forecast does not reach the sizes it needs.
+ */
+function sampleSensitivity(): SensitivityEntry[] {
+  return [
+    {
+      factor: "costPerRun",
+      low: { change: -0.25, value: 16500, recommendedRuns: 3, netValue: 32900 },
+      high: { change: 0.25, value: 27500, recommendedRuns: 1, netValue: 11300 },
+    },
+    {
+      factor: "samplesPerRun",
+      low: null,
+      high: { change: 0.25, value: 500, recommendedRuns: 2, netValue: 25000 },
+      note: "The forecast does not reach the sizes 25% fewer samples per run give.",
+    },
+    {
+      factor: "valuePerPoint",
+      low: { change: -0.25, value: 30000, recommendedRuns: 1, netValue: 7100 },
+      high: { change: 0.25, value: 50000, recommendedRuns: 3, netValue: 37000 },
+    },
+    {
+      factor: "asymptote",
+      low: { change: -0.25, value: null, recommendedRuns: 1, netValue: 9000 },
+      high: { change: 0.25, value: null, recommendedRuns: 2, netValue: 33000 },
+    },
+  ];
+}
+
+/**
+ * The same plan with a point worth only 10,000: no run repays its cost, so stopping is recommended.
+ * Written as a decision.json of the first version: rows without intervals, no sensitivity.
+ */
 export const stopDecision: DecisionFile = {
-  ...sampleDecision,
+  kind: "headroom-decision",
+  version: 1,
+  metric: "accuracy",
+  higherIsBetter: true,
+  level: 0.8,
   plan: { ...sampleDecision.plan, valuePerPoint: 10000, target: undefined },
   recommendedRuns: 0,
   runsToTarget: null,
   reasons: { recommendedRuns: "No run repays its cost.", runsToTarget: null },
   table: sampleRows.map((row) => ({
-    ...row,
+    runs: row.runs,
+    trainingSize: row.trainingSize,
+    expected: row.expected,
+    lower: row.lower,
+    upper: row.upper,
     probabilityOfTarget: null,
+    cost: row.cost,
+    months: row.months,
     // 1,000,000 × (expected − 0.8368) − cost, e.g. one run: 9,700 − 22,000 = −12,300.
     expectedNetValue: Math.round(1_000_000 * (row.expected - 0.8368) - row.cost),
+    affordable: row.affordable,
   })),
 };
 
@@ -310,6 +400,61 @@ export const goldenCases: ReadonlyArray<{ name: string; build: () => TopLevelSpe
     build: () => learningCurveChart(sampleCurve, sampleForecast, sampleDecision, { currency: "EUR" }),
   },
   { name: "learningCurveWithoutDecision", build: () => learningCurveChart(sampleCurve, sampleForecast) },
-  { name: "value", build: () => valueChart(sampleDecision, { currency: "EUR" }) },
-  { name: "valueWithoutTarget", build: () => valueChart(stopDecision, { currency: "EUR", width: 480 }) },
+  { name: "score", build: () => scoreChart(sampleDecision, { metricRange: [0, 1] }) },
+  { name: "scoreWithoutTarget", build: () => scoreChart(stopDecision, { metricRange: [0, 1], width: 480 }) },
+  { name: "netValue", build: () => netValueChart(sampleDecision, { currency: "EUR", metricRange: [0, 1] }) },
+  { name: "netValueFirstVersion", build: () => netValueChart(stopDecision, { currency: "EUR", width: 480 }) },
+  { name: "backtest", build: () => backtestChart(sampleBacktest) },
+  {
+    name: "sensitivity",
+    build: () => sensitivityChart(sampleDecision.sensitivity ?? [], sampleDecision, { currency: "EUR" }),
+  },
 ];
+
+/**
+ * A backtest of two families on the sample curve (invented predictions): pow3 and "last" (no further
+ * gain), each fitted up to 200 samples predicting 400 and 800, and up to 400 predicting 800.
+ * Mean absolute errors, by hand: pow3 (0.0050 + 0.0073 + 0.0018) / 3 = 0.0047;
+ * last (0.0414 + 0.0707 + 0.0293) / 3 = 0.047133.
+ */
+export const sampleBacktest: BacktestInput = {
+  metric: "accuracy",
+  higherIsBetter: true,
+  metricRange: [0, 1],
+  predictions: [
+    { family: "pow3", fittedUpTo: 200, trainingSize: 400, predicted: 0.795, measured: 0.8 },
+    { family: "pow3", fittedUpTo: 200, trainingSize: 800, predicted: 0.822, measured: 0.8293 },
+    { family: "pow3", fittedUpTo: 400, trainingSize: 800, predicted: 0.8275, measured: 0.8293 },
+    { family: "last", fittedUpTo: 200, trainingSize: 400, predicted: 0.7586, measured: 0.8 },
+    { family: "last", fittedUpTo: 200, trainingSize: 800, predicted: 0.7586, measured: 0.8293 },
+    { family: "last", fittedUpTo: 400, trainingSize: 800, predicted: 0.8, measured: 0.8293 },
+  ],
+  familyWeights: { pow3: 0.9, last: 0.1 },
+};
+
+/**
+ * The sample forecast as the forecast of several families writes it: two families weighted by their
+ * backtest (pow3 0.9, last 0.1), the backtest of `sampleBacktest` with root mean square errors worked
+ * from its predictions (pow3 sqrt((0.005² + 0.0073² + 0.0018²) / 3) = 0.005199, last
+ * sqrt((0.0414² + 0.0707² + 0.0293²) / 3) = 0.050184), a shared shift of 0.012, and a single-model
+ * interval for a test set of 1,000 rows, 0.02 wider on each side than the expected score's.
+ */
+export const familiesForecast: ForecastFile = {
+  ...sampleForecast,
+  familyWeights: { pow3: 0.9, last: 0.1 },
+  familyParameters: { pow3: { a: 0.9, b: 2, c: 0.5 }, last: { a: 0.8293 } },
+  backtest: {
+    predictions: sampleBacktest.predictions.map((p) => ({ ...p })),
+    rootMeanSquareError: { pow3: 0.005199, last: 0.050184 },
+    extrapolationError: { pow3: 0.002, last: 0.03 },
+  },
+  sampleStandardDeviation: 0.012,
+  testSize: 1000,
+  extrapolationRatio: 3.25,
+  projections: sampleForecast.projections.map((p) => ({
+    ...p,
+    extrapolationRatio: p.trainingSize / 800,
+    singleModelLower: p.lower - 0.02,
+    singleModelUpper: p.upper + 0.02,
+  })),
+};

@@ -8,25 +8,39 @@
  * scikit-learn: 10 stratified shuffle splits), accuracy on the held-out part. Data: breast cancer
  * (569 rows, 2 classes) and digits (1,797 rows, 10 classes) from fixtures/open-data, and two generated
  * Gaussian-class sets (5,000 rows × 20 features, 3 classes; 20,000 rows × 16 features, 26 classes).
+ * headroom is given the training sizes scikit-learn reports, so both fit the same sizes.
  *
- * Each side runs as a whole process (start-up included), twice, alternating; the faster run counts.
- * Peak memory is each process's maximum resident set size. Needs Debian's python3-sklearn.
+ * Each side runs as a whole process (start-up included), `BENCH_RUNS` times (default 2), alternating;
+ * the faster run counts. Peak memory is each process's maximum resident set size; processor time
+ * (user + system, all threads) is printed too, as it suffers less from other load on the machine than
+ * wall time does. The last column says whether the curve files written with one and two workers are
+ * byte-identical, as they must be. `BENCH_ONLY=digits,breast` runs only the data sets whose names
+ * contain one of those words. Needs Debian's python3-sklearn.
  */
 import { spawnSync } from "node:child_process";
 import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { packageRoot } from "../src/packageRoot.js";
 import { RandomStream } from "../src/random.js";
 
 interface Side {
   seconds: number;
+  cpuSeconds: number;
   peakMemoryKiB: number;
   meanScores: number[];
+  /** The curve file's text (headroom only). */
+  curve?: string;
+}
+
+interface ScikitLearnSide extends Side {
+  trainingSizes: number[];
 }
 
 const python = "/usr/bin/python3";
 const work = mkdtempSync(join(tmpdir(), "headroom-bench-"));
+const runs = Number(process.env.BENCH_RUNS ?? 2);
+const only = process.env.BENCH_ONLY?.split(",").map((word) => word.trim().toLowerCase());
 
 /** Gaussian classes: centres drawn once, rows scattered around them with unit noise. */
 function generated(name: string, rows: number, features: number, classes: number, seed: number): string {
@@ -49,20 +63,8 @@ function openData(name: string): string {
   return file;
 }
 
-function countRows(file: string): number {
-  return readFileSync(file, "utf8").trimEnd().split("\n").length - 1;
-}
-
-/** Training sizes as scikit-learn computes them: floor(fraction × pool) for 8 geometric fractions. */
-function sizesFor(rows: number): number[] {
-  const pool = rows - Math.ceil(rows / 5);
-  const sizes = Array.from({ length: 8 }, (_, i) => Math.floor(Math.pow(10, -1 + i / 7) * pool));
-  return [...new Set(sizes)];
-}
-
-function runHeadroom(file: string, workers: number): Side {
+function runHeadroom(file: string, workers: number, trainingSizes: number[]): Side {
   const out = join(work, "curve.json");
-  const sizes = sizesFor(countRows(file));
   const args = [
     "--import",
     join(packageRoot, "scripts", "bench", "peakMemory.mjs"),
@@ -76,7 +78,7 @@ function runHeadroom(file: string, workers: number): Side {
     "--repeats",
     "2",
     "--sizes",
-    sizes.join(","),
+    trainingSizes.join(","),
     "--workers",
     String(workers),
     "--quiet",
@@ -87,36 +89,37 @@ function runHeadroom(file: string, workers: number): Side {
   const result = spawnSync(process.execPath, args, { encoding: "utf8" });
   const seconds = Number(process.hrtime.bigint() - started) / 1e9;
   if (result.status !== 0) throw new Error(`headroom failed on ${file}: ${result.stderr}`);
-  const peak = /peakMemoryKiB=(\d+)/.exec(result.stderr);
-  const curve = JSON.parse(readFileSync(out, "utf8")) as {
-    points: { scores: number[] }[];
-  };
+  const usage = /peakMemoryKiB=(\d+) cpuSeconds=([\d.]+)/.exec(result.stderr);
+  const text = readFileSync(out, "utf8");
+  const curve = JSON.parse(text) as { points: { scores: number[] }[] };
   return {
     seconds,
-    peakMemoryKiB: peak ? Number(peak[1]) : NaN,
+    cpuSeconds: usage ? Number(usage[2]) : NaN,
+    peakMemoryKiB: usage ? Number(usage[1]) : NaN,
     meanScores: curve.points.map((p) => p.scores.reduce((a, b) => a + b, 0) / p.scores.length),
+    curve: text,
   };
 }
 
-function runScikitLearn(file: string): Side {
+function runScikitLearn(file: string): ScikitLearnSide {
   const script = join(packageRoot, "scripts", "bench", "sklearn_learning_curve.py");
   const started = process.hrtime.bigint();
   const result = spawnSync(python, [script, file], { encoding: "utf8" });
   const seconds = Number(process.hrtime.bigint() - started) / 1e9;
   if (result.status !== 0) throw new Error(`scikit-learn failed on ${file}: ${result.stderr}`);
-  const parsed = JSON.parse(result.stdout) as { peakMemoryKiB: number; meanScores: number[] };
-  return { seconds, peakMemoryKiB: parsed.peakMemoryKiB, meanScores: parsed.meanScores };
+  const parsed = JSON.parse(result.stdout) as Omit<ScikitLearnSide, "seconds">;
+  return { seconds, ...parsed };
 }
 
-function fastest(runs: Side[]): Side {
-  return runs.reduce((a, b) => (b.seconds < a.seconds ? b : a));
+function fastest<T extends Side>(sides: T[]): T {
+  return sides.reduce((a, b) => (b.seconds < a.seconds ? b : a));
 }
 
-const sets: [string, string][] = [
-  ["breast_cancer (569×30, 2 classes)", openData("breast_cancer")],
-  ["digits (1797×64, 10 classes)", openData("digits")],
-  ["gaussian (5000×20, 3 classes)", generated("gaussian-5k", 5000, 20, 3, 1)],
-  ["gaussian (20000×16, 26 classes)", generated("gaussian-20k", 20000, 16, 26, 2)],
+const sets: [string, () => string][] = [
+  ["breast_cancer (569×30, 2 classes)", () => openData("breast_cancer")],
+  ["digits (1797×64, 10 classes)", () => openData("digits")],
+  ["gaussian (5000×20, 3 classes)", () => generated("gaussian-5k", 5000, 20, 3, 1)],
+  ["gaussian (20000×16, 26 classes)", () => generated("gaussian-20k", 20000, 16, 26, 2)],
 ];
 
 const check = spawnSync(python, ["-c", "import sklearn; print(sklearn.__version__)"], { encoding: "utf8" });
@@ -124,24 +127,36 @@ if (check.status !== 0) {
   process.stderr.write("bench: needs Debian's python3-sklearn (apt-get install python3-sklearn)\n");
   process.exitCode = 1;
 } else {
-  process.stdout.write(`scikit-learn ${check.stdout.trim()} vs headroom, whole-process wall time and peak memory\n`);
+  const load = () =>
+    loadavg()
+      .map((l) => l.toFixed(1))
+      .join(" ");
   process.stdout.write(
-    "data set | sklearn s | headroom 1w s | ratio 1w | headroom 2w s | ratio 2w | sklearn MiB | headroom MiB | memory ratio | max |Δ mean score|\n",
+    `scikit-learn ${check.stdout.trim()} vs headroom, whole-process wall time (best of ${runs}), ` +
+      `processor time and peak memory; load average ${load()}\n`,
   );
-  for (const [name, file] of sets) {
-    const sk: Side[] = [];
+  process.stdout.write(
+    "data set | sklearn s | headroom 1w s | ratio 1w | headroom 2w s | ratio 2w | sklearn CPU s | " +
+      "headroom 1w CPU s | CPU ratio 1w | sklearn MiB | headroom MiB | memory ratio | max |Δ mean score| | " +
+      "1w = 2w curve | load after\n",
+  );
+  for (const [name, make] of sets) {
+    if (only && !only.some((word) => name.toLowerCase().includes(word))) continue;
+    const file = make();
+    const sk: ScikitLearnSide[] = [];
     const one: Side[] = [];
     const two: Side[] = [];
-    for (let run = 0; run < 2; run++) {
+    for (let run = 0; run < runs; run++) {
       sk.push(runScikitLearn(file));
-      one.push(runHeadroom(file, 1));
-      two.push(runHeadroom(file, 2));
+      one.push(runHeadroom(file, 1, sk[0].trainingSizes));
+      two.push(runHeadroom(file, 2, sk[0].trainingSizes));
     }
     const s = fastest(sk);
     const h1 = fastest(one);
     const h2 = fastest(two);
     const peakHeadroom = Math.max(h1.peakMemoryKiB, h2.peakMemoryKiB);
     const delta = Math.max(...s.meanScores.map((v, i) => Math.abs(v - h1.meanScores[i])));
+    const identical = [...one, ...two].every((side) => side.curve === one[0].curve);
     process.stdout.write(
       [
         name,
@@ -150,10 +165,15 @@ if (check.status !== 0) {
         (h1.seconds / s.seconds).toFixed(2),
         h2.seconds.toFixed(2),
         (h2.seconds / s.seconds).toFixed(2),
+        s.cpuSeconds.toFixed(2),
+        h1.cpuSeconds.toFixed(2),
+        (h1.cpuSeconds / s.cpuSeconds).toFixed(2),
         (s.peakMemoryKiB / 1024).toFixed(0),
         (peakHeadroom / 1024).toFixed(0),
         (peakHeadroom / s.peakMemoryKiB).toFixed(2),
         delta.toFixed(3),
+        identical ? "yes" : "NO",
+        load(),
       ].join(" | ") + "\n",
     );
   }

@@ -4,7 +4,8 @@ Same job as `headroom measure --workers 1`: median imputation, standardization a
 regression (C = 1, lbfgs, scikit-learn's defaults) fitted at 8 training sizes spaced geometrically
 from 10% to 100% of an 80% training pool, 10 fits per size, accuracy on the held-out 20%.
 Run with Debian's python3-sklearn: /usr/bin/python3 scripts/bench/sklearn_learning_curve.py DATA.csv
-Prints one JSON line: rows, classes, mean accuracy per size, and this process's peak memory.
+Prints one JSON line: rows, classes, the training sizes, mean accuracy per size, and this process's
+peak memory and processor time (user + system, all threads).
 """
 import json
 import resource
@@ -33,13 +34,15 @@ def main(path: str) -> None:
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", ConvergenceWarning)
         sizes, _, test_scores = learning_curve(model, X, y, train_sizes=fractions, cv=cv, n_jobs=1)
-    peak_kib = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
+    usage = resource.getrusage(resource.RUSAGE_SELF)
+    peak_kib = usage.ru_maxrss
     print(json.dumps({
         "rows": int(len(y)),
         "classes": int(len(np.unique(y))),
         "trainingSizes": [int(s) for s in sizes],
         "meanScores": [float(s) for s in test_scores.mean(axis=1)],
         "peakMemoryKiB": int(peak_kib),
+        "cpuSeconds": usage.ru_utime + usage.ru_stime,
     }))
 
 

@@ -94,8 +94,12 @@ export function runFitTask(data: Dataset, plan: FitPlan, task: FitTask): number[
   const test = heldOut(data, task.test);
   const scores: number[] = [];
   const chosen: number[] = [];
-  // The sizes run in increasing order on nested rows: each fit may warm-start from the previous one.
+  // The sizes run in increasing order on nested rows: each fit may warm-start from the previous one,
+  // and reads its features as a prefix of the longest training set's, selected once.
   const warm: WarmStart = {};
+  const longest = Math.max(0, ...plan.trainingSizes.map((size, s) => task.prefixLengths?.[s] ?? size));
+  const nestedFeatures = selectRows(data, task.orderedTrain.subarray(0, longest));
+  const columns = data.featureNames.length;
   plan.trainingSizes.forEach((size, s) => {
     const rows = task.orderedTrain.subarray(0, task.prefixLengths?.[s] ?? size);
     let choice = -1;
@@ -105,7 +109,8 @@ export function runFitTask(data: Dataset, plan: FitPlan, task: FitTask): number[
     }
     const fitted = choice >= 0 ? withSettings(learner, grid![choice]) : learner;
     const random = new RandomStream(plan.seed, StreamPurpose.learner, task.repeat, task.fold, s);
-    scores.push(fitAndScore(data, fitted, metric, rows, test, random, warm));
+    const features = nestedFeatures.subarray(0, rows.length * columns);
+    scores.push(fitAndScore(data, fitted, metric, rows, test, random, warm, features));
     chosen.push(choice);
   });
   return plan.tune ? [...scores, ...chosen] : scores;
@@ -145,7 +150,8 @@ interface WarmStart {
 
 /**
  * Fits `learner` on the training rows and scores it on the held-out rows. With `warm`, a classifier's
- * fit receives `warm.model` (see {@link Learner.fit}) and the new model replaces it.
+ * fit receives `warm.model` (see {@link Learner.fit}) and the new model replaces it. `features` are
+ * the training rows' features when already selected.
  */
 function fitAndScore(
   data: Dataset,
@@ -155,9 +161,9 @@ function fitAndScore(
   test: HeldOut,
   random: RandomStream,
   warm?: WarmStart,
+  features: Float64Array = selectRows(data, train),
 ): number {
   const columns = data.featureNames.length;
-  const features = selectRows(data, train);
   const categories = data.categories;
   if (learner.task === "regression") {
     if (metric.task !== "regression") throw new Error(`metric ${metric.name} cannot score a regression learner`);

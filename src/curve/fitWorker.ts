@@ -7,7 +7,8 @@ import type { Dataset } from "../data/dataset.js";
 import { runFitTask, type FitPlan, type FitTask } from "./fitTask.js";
 
 export type ToWorker = { kind: "setup"; data: Dataset; plan: FitPlan } | { kind: "task"; task: FitTask };
-export type FromWorker = { kind: "done"; index: number; scores: number[] } | { kind: "failed"; message: string };
+export type FromWorker =
+  { kind: "ready" } | { kind: "done"; index: number; scores: number[] } | { kind: "failed"; message: string };
 
 let data: Dataset | undefined;
 let plan: FitPlan | undefined;
@@ -16,6 +17,8 @@ parentPort?.on("message", (message: ToWorker) => {
   if (message.kind === "setup") {
     data = message.data;
     plan = message.plan;
+    // Loaded and set up: the pool hands out tasks from now on.
+    parentPort?.postMessage({ kind: "ready" } satisfies FromWorker);
     return;
   }
   try {

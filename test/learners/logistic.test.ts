@@ -1,7 +1,13 @@
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
 import { readFileSync } from "node:fs";
-import { LogisticRegression, resolveLogisticOptions, type FittedLogistic } from "../../src/learners/logistic.js";
+import {
+  LogisticRegression,
+  resolveLogisticOptions,
+  warmStart,
+  type FittedLogistic,
+} from "../../src/learners/logistic.js";
+import { fitPreprocessor } from "../../src/learners/preprocess.js";
 import type { TrainingSet } from "../../src/learners/learner.js";
 import { RandomStream } from "../../src/random.js";
 import { DataError, UsageError } from "../../src/errors.js";
@@ -61,6 +67,9 @@ function firstRowsProbabilities(model: FittedLogistic, d: OpenData, rows = 5): F
 
 const random = new RandomStream(20261201);
 
+/** Options for fits compared with an optimum: scikit-learn-scale gradient below 1e-8, no relative test. */
+const tight = { tolerance: 1e-8, relativeDecrease: 0 };
+
 describe("LogisticRegression against scikit-learn", () => {
   it("uses the reference the script wrote, whose newton-cg solutions are optimal to |gradient| < 1e-7", () => {
     expect(reference.versions.sklearn).toMatch(/^\d+\.\d+/);
@@ -70,14 +79,15 @@ describe("LogisticRegression against scikit-learn", () => {
     }
   });
 
-  // Tolerance 1e-10 on the scaled gradient so that the comparison is not limited by our own stopping
-  // test; measured agreement with newton-cg: ≤ 5e-7 relative (digits intercepts), probabilities ≤ 2e-9.
+  // Gradient tolerance 1e-8 on scikit-learn's objective and the relative-decrease test off, so that the
+  // comparison is not limited by our own stopping test; measured agreement with newton-cg: ≤ 1.5e-8
+  // relative (digits intercepts).
   it.each(openDataNames)(
     "%s: coefficients and intercepts match scikit-learn's newton-cg to 1e-4·max(1, |ref|), probabilities to 1e-4",
     (name) => {
       const d = data.get(name)!;
       const ref = reference.dataSets[name].newtonCg;
-      const model = new LogisticRegression({ tolerance: 1e-10 }).fit(trainingSet(d), random);
+      const model = new LogisticRegression(tight).fit(trainingSet(d), random);
       expect(model.converged).toBe(true);
       expect(Array.from(model.classes)).toEqual(ref.coef.length === 1 ? [0, 1] : ref.coef.map((_, k) => k));
       expect(worstRelative(model.coefficients, ref.coef.flat())).toBeLessThan(1e-4);
@@ -101,13 +111,21 @@ describe("LogisticRegression against scikit-learn", () => {
     ref.probabilitiesFirstRows.flat().forEach((p, i) => expect(Math.abs(probabilities[i] - p)).toBeLessThan(1e-4));
   });
 
-  it("the default tolerance (1e-8) already reproduces the optimum to 1e-4 on digits", () => {
-    // Measured: coefficients 5e-6, intercepts 4e-5 relative to scikit-learn's newton-cg.
+  it("the default stopping tests (scikit-learn's) end as near the optimum as scikit-learn's lbfgs on digits", () => {
+    // The defaults stop where scikit-learn's lbfgs would: measured 3.9e-4 (coefficients) and 1.2e-3
+    // (intercepts) relative to newton-cg's optimum, against 2.6e-4 and 1.1e-3 for scikit-learn's own
+    // default lbfgs (both from the reference file); we allow 2e-3, and require that the default stops
+    // well short of a tight fit (the point of the default: a learning curve needs no more).
     const d = data.get("digits")!;
     const ref = reference.dataSets.digits.newtonCg;
+    expect(worstRelative(Float64Array.from(reference.dataSets.digits.lbfgs.intercept), ref.intercept)).toBeGreaterThan(
+      1e-4,
+    );
     const model = new LogisticRegression().fit(trainingSet(d), random);
-    expect(worstRelative(model.coefficients, ref.coef.flat())).toBeLessThan(1e-4);
-    expect(worstRelative(model.intercepts, ref.intercept)).toBeLessThan(1e-4);
+    expect(worstRelative(model.coefficients, ref.coef.flat())).toBeLessThan(2e-3);
+    expect(worstRelative(model.intercepts, ref.intercept)).toBeLessThan(2e-3);
+    const tightModel = new LogisticRegression(tight).fit(trainingSet(d), random);
+    expect(model.iterations).toBeLessThan(tightModel.iterations / 2);
   });
 });
 
@@ -115,7 +133,7 @@ describe("LogisticRegression", () => {
   it("gives multinomial coefficients summing to zero over the classes, as the optimum must", () => {
     // At the optimum the penalty gradient W balances Xᵀ(P − Y), whose class sum is zero; so Σ_k w_k = 0.
     const d = data.get("wine")!;
-    const model = new LogisticRegression({ tolerance: 1e-10 }).fit(trainingSet(d), random);
+    const model = new LogisticRegression(tight).fit(trainingSet(d), random);
     for (let j = 0; j < d.columns; j++) {
       let sum = 0;
       for (let k = 0; k < 3; k++) sum += model.coefficients[k * d.columns + j];
@@ -129,13 +147,13 @@ describe("LogisticRegression", () => {
     const d = data.get("wine")!;
     const rows = [...Array(d.rows).keys()].filter((r) => d.labels[r] !== 1);
     const set = trainingSet(d, rows);
-    const model = new LogisticRegression({ tolerance: 1e-10 }).fit(set, random);
+    const model = new LogisticRegression(tight).fit(set, random);
     expect(Array.from(model.classes)).toEqual([0, 2]);
     expect(model.coefficients.length).toBe(d.columns);
     const probabilities = model.predictProbabilities(d.features, d.rows);
     // The same rows relabelled 0/1 with two classes give the same model.
     const relabelled = { ...set, labels: set.labels.map((c) => (c === 2 ? 1 : 0)), classCount: 2 };
-    const twoClass = new LogisticRegression({ tolerance: 1e-10 }).fit(relabelled, random);
+    const twoClass = new LogisticRegression(tight).fit(relabelled, random);
     const twoClassProbabilities = twoClass.predictProbabilities(d.features, d.rows);
     for (let i = 0; i < d.rows; i++) {
       expect(probabilities[i * 3 + 1]).toBe(0);
@@ -172,8 +190,8 @@ describe("LogisticRegression", () => {
   it("does not depend on the units of a feature (it standardizes inside fit)", () => {
     const d = data.get("breast_cancer")!;
     const rescaled = d.features.map((v, i) => (i % d.columns === 3 ? v * 1000 - 7 : v));
-    const a = new LogisticRegression({ tolerance: 1e-10 }).fit(trainingSet(d), random);
-    const b = new LogisticRegression({ tolerance: 1e-10 }).fit({ ...trainingSet(d), features: rescaled }, random);
+    const a = new LogisticRegression(tight).fit(trainingSet(d), random);
+    const b = new LogisticRegression(tight).fit({ ...trainingSet(d), features: rescaled }, random);
     const pa = a.predictProbabilities(d.features, d.rows);
     const pb = b.predictProbabilities(rescaled, d.rows);
     for (let i = 0; i < pa.length; i++) expect(Math.abs(pa[i] - pb[i])).toBeLessThan(1e-9);
@@ -186,6 +204,76 @@ describe("LogisticRegression", () => {
     const model = new LogisticRegression().fit({ ...trainingSet(d), features }, random);
     const probabilities = model.predictProbabilities(features, d.rows);
     expect(probabilities.every((p) => Number.isFinite(p) && p >= 0 && p <= 1)).toBe(true);
+  });
+
+  // Warm starts: the nested training sizes of one (repeat, fold) start from the previous size's model.
+  it.each([
+    ["breast_cancer", 300, 569],
+    ["digits", 900, 1797],
+  ] as const)(
+    "%s: a warm start from a fit on the first %i rows reaches the same optimum in fewer iterations",
+    (name, first, all) => {
+      const d = data.get(name)!;
+      const rows = [...Array(all).keys()];
+      const previous = new LogisticRegression(tight).fit(trainingSet(d, rows.slice(0, first)), random);
+      const cold = new LogisticRegression(tight).fit(trainingSet(d, rows), random);
+      const warm = new LogisticRegression(tight).fit(trainingSet(d, rows), random, previous);
+      expect(warm.converged).toBe(true);
+      // Both within the tight tolerance of one optimum: measured ≤ 2.4e-8 apart (digits intercepts), in
+      // 5 instead of 9 iterations (breast cancer) and 214 instead of 237 (digits).
+      expect(worstRelative(warm.coefficients, Array.from(cold.coefficients))).toBeLessThan(1e-6);
+      expect(worstRelative(warm.intercepts, Array.from(cold.intercepts))).toBeLessThan(1e-6);
+      expect(warm.iterations).toBeLessThan(cold.iterations);
+    },
+  );
+
+  it.each(["breast_cancer", "wine"] as const)(
+    "%s: the warm start carries the previous decision function over to the new standardization exactly",
+    (name) => {
+      // Previous fit on the first half of the rows; the new standardization is fitted on all of them.
+      const d = data.get(name)!;
+      const half = [...Array(Math.floor(d.rows / 2)).keys()];
+      const previous = new LogisticRegression().fit(trainingSet(d, half), random);
+      const preprocessor = fitPreprocessor(d.features, d.rows, d.columns);
+      const start = warmStart(previous, preprocessor, previous.classes)!;
+      const x = preprocessor.transform(d.features, d.rows);
+      const before = previous.preprocessor.transform(d.features, d.rows);
+      const rowsOfCoefficients = previous.intercepts.length;
+      for (let i = 0; i < d.rows; i++) {
+        for (let r = 0; r < rowsOfCoefficients; r++) {
+          let carried = start[r * (d.columns + 1) + d.columns];
+          let original = previous.intercepts[r];
+          for (let j = 0; j < d.columns; j++) {
+            carried += start[r * (d.columns + 1) + j] * x[i * d.columns + j];
+            original += previous.coefficients[r * d.columns + j] * before[i * d.columns + j];
+          }
+          expect(Math.abs(carried - original)).toBeLessThan(1e-9 * Math.max(1, Math.abs(original)));
+        }
+      }
+    },
+  );
+
+  it("ignores a previous model with other classes present and fits exactly as from a cold start", () => {
+    const d = data.get("wine")!;
+    const withoutClass1 = [...Array(d.rows).keys()].filter((r) => d.labels[r] !== 1);
+    const previous = new LogisticRegression().fit(trainingSet(d, withoutClass1), random);
+    const cold = new LogisticRegression().fit(trainingSet(d), random);
+    const warm = new LogisticRegression().fit(trainingSet(d), random, previous);
+    expect(Array.from(warm.coefficients)).toEqual(Array.from(cold.coefficients));
+    expect(warm.iterations).toBe(cold.iterations);
+  });
+
+  it("one-hot encodes a text column: a column naming the class separates the classes", () => {
+    // Iris with a fourth feature replaced by a text column whose category is the class itself.
+    const d = data.get("iris")!;
+    const features = d.features.slice();
+    for (let i = 0; i < d.rows; i++) features[i * d.columns + 3] = d.labels[i];
+    const categories = [null, null, null, ["a", "b", "c"]];
+    const model = new LogisticRegression().fit({ ...trainingSet(d), features, categories }, random);
+    // Three numeric columns and three indicator columns, for each of the 3 classes.
+    expect(model.coefficients.length).toBe(3 * 6);
+    const probabilities = model.predictProbabilities(features, d.rows);
+    for (let i = 0; i < d.rows; i++) expect(probabilities[i * 3 + d.labels[i]]).toBeGreaterThan(0.5);
   });
 
   it("is deterministic", () => {
@@ -234,12 +322,20 @@ describe("LogisticRegression", () => {
     ["C = NaN", { C: NaN }],
     ["tolerance = -1", { tolerance: -1 }],
     ["maxIterations = 2.5", { maxIterations: 2.5 }],
+    ["relativeDecrease = -1e-9", { relativeDecrease: -1e-9 }],
+    ["relativeDecrease = 1", { relativeDecrease: 1 }],
   ])("rejects %s with a UsageError", (_case, options) => {
     expect(() => resolveLogisticOptions(options)).toThrow(UsageError);
   });
 
   it("resolves the documented defaults", () => {
-    expect(resolveLogisticOptions()).toEqual({ C: 1, tolerance: 1e-8, maxIterations: 1000 });
+    // scikit-learn's tol and SciPy's L-BFGS-B ftol = factr · machine epsilon = 1e7 · 2.22e-16.
+    expect(resolveLogisticOptions()).toEqual({
+      C: 1,
+      tolerance: 1e-4,
+      relativeDecrease: 2.220446049250313e-9,
+      maxIterations: 1000,
+    });
   });
 
   it.each([

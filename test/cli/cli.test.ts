@@ -88,7 +88,7 @@ describe("bad input", () => {
     [
       ["measure", "x.csv", "--label", "y", "--folds", "two", "--out", "o.json"],
       ExitCode.usage,
-      "headroom: --folds: 'two' is not a whole number of at least 2\n",
+      "headroom: --folds: 'two' is neither a whole number of at least 2 nor 'loo'\n",
     ],
     [
       ["measure", "x.csv", "--out", "o.json"],

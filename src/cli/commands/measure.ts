@@ -1,6 +1,5 @@
 import { Command } from "commander";
 import { basename } from "node:path";
-import { measureFile } from "../../pipeline.js";
 import { checkOutputPath, toJson, writeFileAtomic } from "../../io/files.js";
 import { checkpointFileFor, removeCheckpoint } from "../../curve/checkpoint.js";
 import type { CliIo } from "../io.js";
@@ -32,6 +31,8 @@ export function measureCommand(io: CliIo): Command {
     .option("--resume", "continue an interrupted run from its checkpoint (<out>.checkpoint.jsonl)")
     .requiredOption("--out <file>", "where to write curve.json")
     .action(async (data: string, options: Record<string, string | boolean | undefined>) => {
+      // Imported when the command runs, so that the other commands do not load the learners.
+      const { measureFile } = await import("../../pipeline.js");
       const progress = progressBar(io, options.quiet === true);
       const out = options.out as string;
       checkOutputPath(out, [data]);

@@ -1,7 +1,6 @@
 import { Command } from "commander";
 import { availableParallelism } from "node:os";
 import { basename, extname, join } from "node:path";
-import { runStudy } from "../../study/runStudy.js";
 import type { CliIo } from "../io.js";
 import { progressBar } from "../progress.js";
 import { optionalInteger } from "../parseOptions.js";
@@ -23,6 +22,8 @@ export async function runStudyFromCli(
   commandLine: string,
 ): Promise<void> {
   const progress = progressBar(io, options.quiet === true);
+  // Imported here, not at the top: a study loads every stage, the report's vega modules included.
+  const { runStudy } = await import("../../study/runStudy.js");
   const result = await runStudy(studyFile, {
     outDir,
     workers: optionalInteger("--workers", options.workers as string | undefined, 1) ?? availableParallelism(),

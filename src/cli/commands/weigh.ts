@@ -1,9 +1,6 @@
 import { Command } from "commander";
-import { readForecast } from "../../forecast/readForecast.js";
 import { toJson, writeFileAtomic } from "../../io/files.js";
 import type { DecisionFile } from "../../weigh/decisionFile.js";
-import { readPlan } from "../../weigh/readPlan.js";
-import { weighRuns } from "../../weigh/weigh.js";
 import type { CliIo } from "../io.js";
 
 export function weighCommand(io: CliIo): Command {
@@ -14,7 +11,13 @@ export function weighCommand(io: CliIo): Command {
     .option("--domain <field>", "what the model's decisions touch (e.g. clinical), when the plan does not say")
     .option("--json", "print decision.json to standard output")
     .option("--out <file>", "where to write decision.json")
-    .action((forecastFile: string, options: Record<string, string | boolean | undefined>) => {
+    .action(async (forecastFile: string, options: Record<string, string | boolean | undefined>) => {
+      // Imported when the command runs, so that the other commands do not load them.
+      const [{ readForecast }, { readPlan }, { weighRuns }] = await Promise.all([
+        import("../../forecast/readForecast.js"),
+        import("../../weigh/readPlan.js"),
+        import("../../weigh/weigh.js"),
+      ]);
       const forecast = readForecast(forecastFile);
       const plan = readPlan(options.plan as string);
       const decision = weighRuns(forecast, plan, forecastFile, {

@@ -6,7 +6,8 @@
  */
 import type { CurveFile } from "../curve/curveFile.js";
 import { UsageError } from "../errors.js";
-import { findCurveFamily, type CurveFamily } from "../fit/families.js";
+import { curveFamilies, findCurveFamily, type CurveFamily } from "../fit/families.js";
+import { message } from "../messages.js";
 import { assessFamilies, type AssessedFamily } from "./backtest.js";
 import { drawCurves, drawnValue, measuredRange } from "./drawCurves.js";
 import type { BandPoint, ForecastFile, Projection } from "./forecastFile.js";
@@ -114,8 +115,9 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
   if (options.family !== undefined) {
     try {
       family = findCurveFamily(options.family);
-    } catch (error) {
-      throw new UsageError(`forecast: --family ${(error as Error).message}`);
+    } catch {
+      const known = curveFamilies.map((f) => f.name);
+      throw new UsageError(message.unknownName("--family", options.family, known));
     }
   }
   const target = options.target;

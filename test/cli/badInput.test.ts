@@ -373,9 +373,17 @@ describe("bad input gives one line, its exit code, no stack trace and no output"
     expect(lines.slice(1).some((l) => /^\s+at /.test(l))).toBe(true);
   });
 
-  // There is no --family option yet (the forecast fits pow3 only); the library's resolver is tested.
-  it("names the known families for an unknown family (library level)", () => {
-    expect(() => findCurveFamily("exp9")).toThrow('unknown curve family "exp9"; known families: pow3');
+  it("names the known families for an unknown --family", async () => {
+    const curve = path("family-curve.csv");
+    writeFileSync(curve, "trainingSize,score\n10,0.6\n20,0.7\n40,0.75\n80,0.78\n");
+    const out = path("family-forecast.json");
+    const c = capture();
+    expect(await run(["forecast", curve, "--family", "exp9", "--out", out], c.io)).toBe(ExitCode.usage);
+    expect(c.stderr()).toBe(
+      "headroom: --family: unknown name 'exp9' (known: pow3, pow4, mmf4, wbl4, exp3, ilog2, last)\n",
+    );
+    expect(existsSync(out)).toBe(false);
+    expect(() => findCurveFamily("exp9")).toThrow("known families: pow3, pow4, mmf4, wbl4, exp3, ilog2, last");
   });
 });
 

@@ -60,7 +60,10 @@ describe("headroom forecast options", () => {
   });
 
   it.each([
-    [["--family", "pow9"], /^headroom: forecast: --family unknown curve family "pow9"; known families: pow3, pow4/],
+    [
+      ["--family", "pow9"],
+      /^headroom: --family: unknown name .pow9. \(known: pow3, pow4, mmf4, wbl4, exp3, ilog2, last\)$/,
+    ],
     [["--target", "high"], /^headroom: --target: 'high' is not a number$/m],
     [["--target", "85"], /^headroom: forecast: target 85 is outside the score range \[0, 1\]/],
     [["--confidence", "1.5"], /^headroom: --confidence: '1.5' is not a probability between 0 and 1$/m],

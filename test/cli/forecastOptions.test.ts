@@ -62,7 +62,7 @@ describe("headroom forecast options", () => {
   it.each([
     [
       ["--family", "pow9"],
-      /^headroom: --family: unknown name .pow9. \(known: pow3, pow4, mmf4, wbl4, exp3, ilog2, last\)$/,
+      /^headroom: --family: unknown name .pow9. \(known: pow3, pow4, mmf4, wbl4, exp3, ilog2, last\)\n$/,
     ],
     [["--target", "high"], /^headroom: --target: 'high' is not a number$/m],
     [["--target", "85"], /^headroom: forecast: target 85 is outside the score range \[0, 1\]/],

@@ -26,7 +26,7 @@
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
-import { choleskyInPlace, choleskySolveInPlace, minimumNormSolve } from "./linearAlgebra.js";
+import { choleskyInPlace, choleskySolveInPlace, linearScores, minimumNormSolve } from "./linearAlgebra.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames } from "./settings.js";
 import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
@@ -153,19 +153,8 @@ export class FittedLda implements FittedModel {
   decisionScores(features: Float64Array, rows: number): Float64Array {
     const x = this.preprocessor.transform(features, rows);
     const p = this.preprocessor.outputColumns;
-    const classes = this.classes.length;
-    const out = new Float64Array(rows * classes);
-    if (classes === 1) return out;
-    for (let i = 0; i < rows; i++) {
-      const offset = i * p;
-      for (let k = 0; k < classes; k++) {
-        let s = this.intercepts[k];
-        const w = k * p;
-        for (let j = 0; j < p; j++) s += this.coefficients[w + j] * x[offset + j];
-        out[i * classes + k] = s;
-      }
-    }
-    return out;
+    if (this.classes.length === 1) return new Float64Array(rows);
+    return linearScores(x, rows, p, this.coefficients, this.intercepts);
   }
 
   /**

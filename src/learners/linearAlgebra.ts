@@ -116,3 +116,28 @@ export function minimumNormSolve(a: Float64Array, n: number, b: Float64Array): F
   }
   return x;
 }
+
+/**
+ * Linear scores `wₖ·xᵢ + bₖ` of every row against every weight row: row-major `rows × k`, where
+ * `k = intercepts.length` and `weights` is row-major `k × columns`.
+ */
+export function linearScores(
+  x: Float64Array,
+  rows: number,
+  columns: number,
+  weights: Float64Array,
+  intercepts: Float64Array,
+): Float64Array {
+  const k = intercepts.length;
+  const out = new Float64Array(rows * k);
+  for (let i = 0; i < rows; i++) {
+    const offset = i * columns;
+    for (let c = 0; c < k; c++) {
+      let s = intercepts[c];
+      const w = c * columns;
+      for (let j = 0; j < columns; j++) s += weights[w + j] * x[offset + j];
+      out[i * k + c] = s;
+    }
+  }
+  return out;
+}

@@ -31,6 +31,7 @@
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
+import { linearScores } from "./linearAlgebra.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, positive, wholeNumber } from "./settings.js";
 import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
@@ -145,18 +146,7 @@ export class FittedSvm implements FittedModel {
   decisionScores(features: Float64Array, rows: number): Float64Array {
     const x = this.preprocessor.transform(features, rows);
     const p = this.preprocessor.outputColumns;
-    const problems = this.intercepts.length;
-    const out = new Float64Array(rows * problems);
-    for (let i = 0; i < rows; i++) {
-      const offset = i * p;
-      for (let k = 0; k < problems; k++) {
-        let s = this.intercepts[k];
-        const w = k * p;
-        for (let j = 0; j < p; j++) s += this.weights[w + j] * x[offset + j];
-        out[i * problems + k] = s;
-      }
-    }
-    return out;
+    return linearScores(x, rows, p, this.weights, this.intercepts);
   }
 
   /**

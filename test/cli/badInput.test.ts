@@ -16,16 +16,7 @@ import { metrics } from "../../src/curve/metrics.js";
 import { findCurveFamily } from "../../src/fit/families.js";
 import { learnerNames } from "../../src/learners/registry.js";
 import { RandomStream } from "../../src/random.js";
-
-function capture() {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    io: { stdout: (t: string) => void out.push(t), stderr: (t: string) => void err.push(t), stderrIsTerminal: false },
-    stdout: () => out.join(""),
-    stderr: () => err.join(""),
-  };
-}
+import { capture } from "../helpers/captureIo.js";
 
 const dir = mkdtempSync(join(tmpdir(), "headroom-bad-input-"));
 const path = (name: string) => join(dir, name);

@@ -9,16 +9,7 @@ import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { run } from "../../src/cli/program.js";
 import { ExitCode } from "../../src/errors.js";
-
-function capture() {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    io: { stdout: (t: string) => void out.push(t), stderr: (t: string) => void err.push(t), stderrIsTerminal: false },
-    stdout: () => out.join(""),
-    stderr: () => err.join(""),
-  };
-}
+import { capture } from "../helpers/captureIo.js";
 
 const dir = mkdtempSync(join(tmpdir(), "headroom-forecast-options-"));
 const curveFile = join(dir, "curve.csv");

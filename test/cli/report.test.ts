@@ -11,15 +11,7 @@ import { describe, expect, it } from "vitest";
 import { run } from "../../src/cli/program.js";
 import { ExitCode } from "../../src/errors.js";
 import { sampleCurve, sampleDecision, sampleForecast } from "../report/sampleInputs.js";
-
-function capture() {
-  const out: string[] = [];
-  const err: string[] = [];
-  return {
-    io: { stdout: (t: string) => void out.push(t), stderr: (t: string) => void err.push(t), stderrIsTerminal: false },
-    stderr: () => err.join(""),
-  };
-}
+import { capture } from "../helpers/captureIo.js";
 
 /** A folder holding curve.json, forecast.json and decision.json. */
 function inputsFolder(): string {

@@ -15,6 +15,7 @@ import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import { run } from "../../src/cli/program.js";
 import { ExitCode } from "../../src/errors.js";
+import { capture } from "../helpers/captureIo.js";
 
 const root = fileURLToPath(new URL("../../", import.meta.url));
 const dir = mkdtempSync(join(tmpdir(), "headroom-resume-"));
@@ -23,14 +24,6 @@ copyFileSync(join(root, "fixtures/open-data/digits.csv"), digits);
 
 /** 2 repeats × 5 folds = 10 fit tasks of 3 sizes each. */
 const design = ["--label", "class", "--repeats", "2", "--sizes", "50,100,200", "--seed", "7", "--quiet"];
-
-function capture() {
-  const err: string[] = [];
-  return {
-    io: { stdout: () => {}, stderr: (t: string) => void err.push(t), stderrIsTerminal: false },
-    stderr: () => err.join(""),
-  };
-}
 
 async function runInProcess(argv: string[]): Promise<void> {
   const c = capture();

@@ -16,6 +16,7 @@ import { measuredCurve } from "./measuredCurve.js";
 import { quantileSorted } from "./quantile.js";
 import { sampleShift, singleModelSpread } from "./sampleUncertainty.js";
 import { RandomStream } from "../random.js";
+import { sizesInRows } from "../curve/sizesInRows.js";
 import { targetSize } from "./targetSize.js";
 
 export { quantileSorted } from "./quantile.js";
@@ -171,8 +172,9 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
  *   fitted, or when every bootstrap refit fails.
  * @throws UsageError for a bad option value.
  */
-export function forecastCurve(curve: CurveFile, options: ForecastOptions = {}): ForecastFile {
-  // 1. Validate and summarise.
+export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = {}): ForecastFile {
+  // 1. Validate and summarise (a curve counted in whole runs is restated in rows first).
+  const { curve, converted } = sizesInRows(measuredIn);
   const measured = measuredCurve(curve);
   const resolved = resolveForecastOptions(curve, options);
   const { sign, summaries } = measured;
@@ -252,6 +254,11 @@ export function forecastCurve(curve: CurveFile, options: ForecastOptions = {}): 
 
   // 8. Warnings.
   const warnings = forecastWarnings({ curve, measured, options: resolved, assessment, drawn, shift });
+  if (converted) {
+    warnings.unshift(
+      `The curve was measured in whole runs; its sizes are restated in samples at the mean of ${formatRowsPerRun(curve.rowsPerRun as number)} samples per run.`,
+    );
+  }
 
   const leading = leadingFamily(families);
   const forecast: ForecastFile = {
@@ -331,4 +338,8 @@ function logSpaced(from: number, to: number, count: number): number[] {
   if (to <= from) return [from];
   const step = Math.log(to / from) / (count - 1);
   return Array.from({ length: count }, (_, k) => (k === 0 ? from : k === count - 1 ? to : from * Math.exp(step * k)));
+}
+
+function formatRowsPerRun(rowsPerRun: number): string {
+  return Number.isInteger(rowsPerRun) ? String(rowsPerRun) : rowsPerRun.toFixed(1);
 }

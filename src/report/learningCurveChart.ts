@@ -3,6 +3,7 @@
  * would take it.
  */
 import type { CurveFile } from "../curve/curveFile.js";
+import { sizesInRows } from "../curve/sizesInRows.js";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import type { DecisionFile, DecisionRow } from "../weigh/decisionFile.js";
 import type { TopLevelSpec } from "vega-lite";
@@ -74,7 +75,8 @@ export function learningCurveChart(
   };
 
   // Data, one array per layer.
-  const fits = curve.points.flatMap((point) =>
+  // A curve counted in whole runs is drawn in samples, the unit its forecast uses.
+  const fits = sizesInRows(curve).curve.points.flatMap((point) =>
     point.scores
       .filter(Number.isFinite)
       .map((score) => ({ trainingSize: point.trainingSize, score, series: series.fits })),

@@ -24,7 +24,6 @@ Wilson score interval for an observed proportion p on n samples, z = norm.ppf((1
 
 import argparse
 import datetime
-import json
 import math
 import os
 import sys
@@ -32,6 +31,9 @@ import sys
 import numpy as np
 import scipy
 from scipy.stats import beta, norm
+
+from _drift import numbers, read_json, write_json
+
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 OUT = os.path.join(HERE, "..", "..", "fixtures", "reference", "scipy-intervals.json")
@@ -136,27 +138,13 @@ def compute():
     }
 
 
-def numbers(value):
-    if isinstance(value, bool):
-        return
-    if isinstance(value, (int, float)):
-        yield float(value)
-    elif isinstance(value, list):
-        for item in value:
-            yield from numbers(item)
-    elif isinstance(value, dict):
-        for key in sorted(value):
-            yield from numbers(value[key])
-
-
 def main():
     parser = argparse.ArgumentParser()
     parser.add_argument("--check", action="store_true")
     args = parser.parse_args()
     result = compute()
     if args.check:
-        with open(OUT) as f:
-            committed = json.load(f)
+        committed = read_json(OUT)
         worst = 0.0
         for key in ["clopperPearson", "clopperPearsonLower", "wilson", "heldOutNeeded"]:
             fresh = list(numbers(result[key]))
@@ -169,9 +157,7 @@ def main():
         ok = worst <= 1e-12
         print(f"scipy-intervals: largest difference {worst:.2e} ({'ok' if ok else 'DIFFERS'})")
         sys.exit(0 if ok else 1)
-    with open(OUT, "w") as f:
-        json.dump(result, f, indent=1)
-        f.write("\n")
+    write_json(OUT, result)
     print(f"wrote {os.path.relpath(OUT)}: {len(EXACT_CASES)} exact intervals, {len(WILSON_CASES)} Wilson intervals")
 
 

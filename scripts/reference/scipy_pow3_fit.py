@@ -20,13 +20,15 @@ when any number differs from the committed file by more than 1e-6 * max(1, |comm
 
 import argparse
 import datetime
-import json
 import os
 import sys
 
 import numpy as np
 import scipy
 from scipy.optimize import curve_fit
+
+from _drift import numbers, read_json, write_json
+
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 OUT = os.path.join(HERE, "..", "..", "fixtures", "reference", "scipy-pow3-fit.json")
@@ -79,22 +81,13 @@ def compute():
     }
 
 
-def numbers(value):
-    if isinstance(value, (int, float)):
-        yield float(value)
-    elif isinstance(value, list):
-        for item in value:
-            yield from numbers(item)
-
-
 def main():
     parser = argparse.ArgumentParser()
     parser.add_argument("--check", action="store_true")
     args = parser.parse_args()
     result = compute()
     if args.check:
-        with open(OUT) as f:
-            committed = json.load(f)
+        committed = read_json(OUT)
         keys = ["parameters", "covariance", "standardErrors", "residualSumOfSquares"]
         worst = 0.0
         for key in keys:
@@ -103,9 +96,7 @@ def main():
         ok = worst <= 1e-6
         print(f"scipy-pow3-fit: largest difference {worst:.2e} ({'ok' if ok else 'DIFFERS'})")
         sys.exit(0 if ok else 1)
-    with open(OUT, "w") as f:
-        json.dump(result, f, indent=1)
-        f.write("\n")
+    write_json(OUT, result)
     print(f"wrote {os.path.relpath(OUT)}: parameters {result['parameters']}")
 
 

@@ -67,6 +67,9 @@ from sklearn.pipeline import make_pipeline
 from sklearn.preprocessing import OneHotEncoder, StandardScaler
 from sklearn.svm import LinearSVC
 
+from _drift import compare, read_json
+
+
 ROOT = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 DATA_DIR = os.path.join(ROOT, "fixtures", "open-data")
 OUTPUT = os.path.join(ROOT, "fixtures", "reference", "sklearn-learners.json")
@@ -279,27 +282,6 @@ def run():
     }
 
 
-def compare(fresh, committed, path, problems):
-    """Appends to `problems` every place where `fresh` drifts from `committed`."""
-    if isinstance(committed, dict):
-        for key in committed:
-            if key not in fresh:
-                problems.append(f"{path}.{key}: missing in fresh run")
-            else:
-                compare(fresh[key], committed[key], f"{path}.{key}", problems)
-    elif isinstance(committed, list):
-        if not isinstance(fresh, list) or len(fresh) != len(committed):
-            problems.append(f"{path}: length differs")
-            return
-        for i, (a, b) in enumerate(zip(fresh, committed)):
-            compare(a, b, f"{path}[{i}]", problems)
-    elif isinstance(committed, float):
-        if abs(fresh - committed) > CHECK_TOLERANCE * max(1.0, abs(committed)):
-            problems.append(f"{path}: {fresh!r} vs committed {committed!r}")
-    elif fresh != committed:
-        problems.append(f"{path}: {fresh!r} vs committed {committed!r}")
-
-
 def dumps(value, indent=0):
     """JSON with one line per list of scalars (a probability row, a permutation), indented otherwise."""
     pad = " " * (indent + 1)
@@ -320,13 +302,12 @@ def main():
         write_diabetes()
     fresh = run()
     if args.check:
-        with open(OUTPUT) as handle:
-            committed = json.load(handle)
+        committed = read_json(OUTPUT)
         problems = []
         if not diabetes_matches_sklearn():
             problems.append("fixtures/open-data/diabetes.csv differs from load_diabetes(scaled=False)")
         for part in ("classification", "regression"):
-            compare(fresh[part], committed[part], part, problems)
+            compare(fresh[part], committed[part], CHECK_TOLERANCE, part, problems, exact_integers=True)
         if problems:
             print(f"sklearn_learners: {len(problems)} drift(s), first: {problems[0]}")
             sys.exit(1)

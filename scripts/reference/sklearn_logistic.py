@@ -33,7 +33,6 @@ prints one summary line and nothing else.
 import argparse
 import csv
 import datetime
-import json
 import os
 import sys
 import warnings
@@ -43,6 +42,9 @@ import sklearn
 from sklearn.exceptions import ConvergenceWarning
 from sklearn.linear_model import LogisticRegression
 from sklearn.preprocessing import StandardScaler
+
+from _drift import compare, read_json, write_json
+
 
 ROOT = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 DATA_DIR = os.path.join(ROOT, "fixtures", "open-data")
@@ -138,41 +140,20 @@ def run():
     }
 
 
-def compare(fresh, committed, path, problems):
-    """Appends to `problems` every place where `fresh` drifts from `committed`."""
-    if isinstance(committed, dict):
-        for key in committed:
-            if key not in fresh:
-                problems.append(f"{path}.{key}: missing in fresh run")
-            else:
-                compare(fresh[key], committed[key], f"{path}.{key}", problems)
-    elif isinstance(committed, list):
-        if not isinstance(fresh, list) or len(fresh) != len(committed):
-            problems.append(f"{path}: length differs")
-            return
-        for i, (a, b) in enumerate(zip(fresh, committed)):
-            compare(a, b, f"{path}[{i}]", problems)
-    elif isinstance(committed, (int, float)) and not isinstance(committed, bool):
-        if abs(fresh - committed) > CHECK_TOLERANCE * max(1.0, abs(committed)):
-            problems.append(f"{path}: {fresh!r} vs committed {committed!r}")
-    elif fresh != committed:
-        problems.append(f"{path}: {fresh!r} vs committed {committed!r}")
-
-
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--check", action="store_true", help="compare a fresh run with the committed JSON")
     args = parser.parse_args()
     fresh = run()
     if args.check:
-        with open(OUTPUT) as handle:
-            committed = json.load(handle)
+        committed = read_json(OUTPUT)
         problems = []
         for name in DATA_SETS:
             # iterations and maxAbsGradient describe the run, they are not reference values.
             compare(
                 fresh["dataSets"][name]["classes"],
                 committed["dataSets"][name]["classes"],
+                CHECK_TOLERANCE,
                 f"dataSets.{name}.classes",
                 problems,
             )
@@ -181,6 +162,7 @@ def main():
                 compare(
                     {k: fresh["dataSets"][name][key][k] for k in keep},
                     {k: committed["dataSets"][name][key][k] for k in keep},
+                    CHECK_TOLERANCE,
                     f"dataSets.{name}.{key}",
                     problems,
                 )
@@ -192,10 +174,7 @@ def main():
             f"(sklearn {fresh['versions']['sklearn']}, committed with {committed['versions']['sklearn']})"
         )
         return
-    os.makedirs(os.path.dirname(OUTPUT), exist_ok=True)
-    with open(OUTPUT, "w") as handle:
-        json.dump(fresh, handle, indent=1)
-        handle.write("\n")
+    write_json(OUTPUT, fresh)
     worst = {key: max(d[key]["maxAbsGradient"] for d in fresh["dataSets"].values()) for key in SOLVERS}
     print(
         f"sklearn_logistic: wrote {os.path.relpath(OUTPUT, ROOT)} for {len(DATA_SETS)} data sets "

@@ -36,7 +36,6 @@ differs; status 0 otherwise. The script prints one summary line and nothing else
 
 import argparse
 import datetime
-import json
 import os
 import sys
 import warnings
@@ -54,6 +53,8 @@ from sklearn.metrics import (
     r2_score,
     roc_auc_score,
 )
+
+from _drift import compare, read_json, write_json
 
 ROOT = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
 OUTPUT = os.path.join(ROOT, "fixtures", "reference", "sklearn-metrics.json")
@@ -204,30 +205,6 @@ def run():
     }
 
 
-def compare(fresh, committed, path, problems):
-    """Appends to `problems` every place where `fresh` drifts from `committed`."""
-    if isinstance(committed, dict):
-        for key in committed:
-            if key not in fresh:
-                problems.append(f"{path}.{key}: missing in fresh run")
-            else:
-                compare(fresh[key], committed[key], f"{path}.{key}", problems)
-    elif isinstance(committed, list):
-        if not isinstance(fresh, list) or len(fresh) != len(committed):
-            problems.append(f"{path}: length differs")
-            return
-        for i, (a, b) in enumerate(zip(fresh, committed)):
-            compare(a, b, f"{path}[{i}]", problems)
-    elif committed is None or fresh is None:
-        if committed is not fresh:
-            problems.append(f"{path}: {fresh!r} vs committed {committed!r}")
-    elif isinstance(committed, (int, float)) and not isinstance(committed, bool):
-        if abs(fresh - committed) > CHECK_TOLERANCE * max(1.0, abs(committed)):
-            problems.append(f"{path}: {fresh!r} vs committed {committed!r}")
-    elif fresh != committed:
-        problems.append(f"{path}: {fresh!r} vs committed {committed!r}")
-
-
 def main():
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--check", action="store_true", help="compare a fresh run with the committed JSON")
@@ -235,11 +212,10 @@ def main():
     fresh = run()
     count = len(fresh["classification"]) + len(fresh["regression"])
     if args.check:
-        with open(OUTPUT) as handle:
-            committed = json.load(handle)
+        committed = read_json(OUTPUT)
         problems = []
         for part in ["classification", "regression"]:
-            compare(fresh[part], committed[part], part, problems)
+            compare(fresh[part], committed[part], CHECK_TOLERANCE, part, problems)
         if problems:
             print(f"sklearn_metrics: {len(problems)} drift(s), first: {problems[0]}")
             sys.exit(1)
@@ -248,10 +224,7 @@ def main():
             f"(sklearn {fresh['versions']['sklearn']}, committed with {committed['versions']['sklearn']})"
         )
         return
-    os.makedirs(os.path.dirname(OUTPUT), exist_ok=True)
-    with open(OUTPUT, "w") as handle:
-        json.dump(fresh, handle, indent=1)
-        handle.write("\n")
+    write_json(OUTPUT, fresh)
     print(f"sklearn_metrics: wrote {os.path.relpath(OUTPUT, ROOT)} ({count} cases, sklearn {sklearn.__version__})")
 
 

@@ -9,6 +9,9 @@ import { dirname, join, resolve } from "node:path";
 import type { CurveFile } from "../curve/curveFile.js";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import { forecastCurve } from "../forecast/forecast.js";
+import { curveFamilies } from "../fit/families.js";
+import { UsageError } from "../errors.js";
+import { message } from "../messages.js";
 import { checkpointFileFor, removeCheckpoint } from "../curve/checkpoint.js";
 import { checkOutputPath, readJsonFile, toJson, writeFileAtomic } from "../io/files.js";
 import { validate } from "../io/validate.js";
@@ -52,6 +55,12 @@ export async function runStudy(studyFile: string, options: StudyRunOptions): Pro
   // Fail before measuring when the output folder cannot exist (each output is checked again when written).
   checkOutputPath(join(options.outDir, "curve.json"), [studyFile, dataFile]);
   const checkpoint = checkpointFileFor(join(options.outDir, "curve.json"));
+  // Fail before measuring on an unknown curve family (the forecast checks its other options).
+  const family = study.forecast.family;
+  if (family !== undefined && !curveFamilies.some((f) => f.name === family)) {
+    const known = curveFamilies.map((f) => f.name);
+    throw inStudyTerms(new UsageError(message.unknownName("--family", family, known)), studyFile, "forecast");
+  }
 
   const curve = await measureFile(dataFile, {
     label: study.label,
@@ -77,12 +86,21 @@ export async function runStudy(studyFile: string, options: StudyRunOptions): Pro
   // Today's size, each number of further runs at the fewest, expected and most samples a run can
   // yield, and the sizes the ±25% yield sensitivity reads.
   const at = sizesForForecast(study.plan, today).all;
-  const forecast = forecastCurve(curve, {
-    at,
-    level: study.forecast.level,
-    draws: study.forecast.draws,
-    seed: study.measure.seed,
-  });
+  let forecast: ForecastFile;
+  try {
+    forecast = forecastCurve(curve, {
+      at,
+      level: study.forecast.level,
+      draws: study.forecast.draws,
+      seed: study.measure.seed,
+      family: study.forecast.family,
+      target: study.forecast.target,
+      confidence: study.forecast.confidence,
+      testSize: study.forecast.testSize,
+    });
+  } catch (error) {
+    throw inStudyTerms(error, studyFile, "forecast");
+  }
   const decision = weighRuns(forecast, study.plan, "forecast", { domain: study.context.domain });
   const report = await reportFiles({
     curve,

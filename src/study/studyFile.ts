@@ -33,6 +33,14 @@ export const studySchema = z.strictObject({
     .strictObject({
       level: z.number().gt(0).lt(1).optional(),
       draws: z.number().int().min(20).max(10000).optional(),
+      /** One curve family instead of the weighted combination (a name from `curveFamilies`). */
+      family: z.string().min(1).optional(),
+      /** A target score: the forecast also says at what training size it is reached. */
+      target: z.number().optional(),
+      /** Probability with which the target should be reached. */
+      confidence: z.number().gt(0).lt(1).optional(),
+      /** Test rows of the single-model interval. */
+      testSize: z.number().int().min(1).optional(),
     })
     .default({}),
   plan: planSchema,

@@ -13,7 +13,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { run } from "../../src/cli/program.js";
 import { ExitCode } from "../../src/errors.js";
 import { metrics } from "../../src/curve/metrics.js";
-import { findCurveFamily } from "../../src/fit/families.js";
+import { curveFamilies, findCurveFamily } from "../../src/fit/families.js";
 import { learnerNames } from "../../src/learners/registry.js";
 import { RandomStream } from "../../src/random.js";
 import { capture } from "../helpers/captureIo.js";
@@ -59,6 +59,13 @@ const files: Record<string, string | Buffer> = {
     data: "iris.csv",
     label: "class",
     measure: { learner: "oracle", repeats: 1 },
+    plan: goodPlan,
+  }),
+  "unknown-family-study.json": JSON.stringify({
+    data: "iris.csv",
+    label: "class",
+    measure: { repeats: 1 },
+    forecast: { family: "pow9" },
     plan: goodPlan,
   }),
   "a-file": "not a folder\n",
@@ -334,6 +341,12 @@ const cases: BadCase[] = [
     argv: ["study", path("unknown-learner-study.json"), "--workers", "1", "--out", path("study-out")],
     exitCode: ExitCode.data,
     line: `${path("unknown-learner-study.json")}: measure.learner: unknown name 'oracle' (known: ${learnerNames().join(", ")})`,
+  },
+  {
+    name: "unknown curve family in a study",
+    argv: ["study", path("unknown-family-study.json"), "--workers", "1", "--out", path("study-out")],
+    exitCode: ExitCode.data,
+    line: `${path("unknown-family-study.json")}: forecast.family: unknown name 'pow9' (known: ${curveFamilies.map((f) => f.name).join(", ")})`,
   },
 ];
 

@@ -18,6 +18,8 @@ export const ExitCode = {
   io: 74,
   /** Stopped by Ctrl-C (SIGINT): 128 + the signal's number, as shells report it. */
   interrupted: 130,
+  /** Stopped by SIGTERM (a scheduler's or service manager's stop): 128 + 15. */
+  terminated: 143,
 } as const;
 
 export type ExitCodeValue = (typeof ExitCode)[keyof typeof ExitCode];

@@ -5,7 +5,8 @@
  * Ctrl-C (SIGINT) aborts the run's signal: a measurement stops after the fits under way, keeps the
  * finished ones in its checkpoint, and the run ends with one line saying how to resume and exit code
  * 130. A second Ctrl-C stops at once (the checkpoint is written a whole line at a time, so it stays
- * readable).
+ * readable). SIGTERM (what `kill`, a batch scheduler or a service manager sends) stops the same
+ * orderly way, with exit code 143.
  */
 import { run } from "../cli/program.js";
 import { ExitCode } from "../errors.js";
@@ -20,9 +21,16 @@ process.on("SIGINT", () => {
   process.exit(ExitCode.interrupted);
 });
 
-process.exitCode = await run(process.argv.slice(2), {
+let terminated = false;
+process.on("SIGTERM", () => {
+  terminated = true;
+  interruption.abort();
+});
+
+const code = await run(process.argv.slice(2), {
   stdout: (text) => process.stdout.write(text),
   stderr: (text) => process.stderr.write(text),
   stderrIsTerminal: process.stderr.isTTY === true,
   signal: interruption.signal,
 });
+process.exitCode = terminated && code === ExitCode.interrupted ? ExitCode.terminated : code;

@@ -119,6 +119,24 @@ describe("an interrupted measurement resumes to the same bytes", () => {
     expect(readFileSync(out).equals(await uninterrupted())).toBe(true);
     expect(existsSync(checkpoint)).toBe(false);
   });
+
+  it("after SIGTERM: the same orderly stop, exit code 143", async () => {
+    const out = join(dir, "terminated.json");
+    const checkpoint = `${out}.checkpoint.jsonl`;
+    const { child, exit } = startCli(["measure", digits, ...design, "--workers", "1", "--out", out]);
+    await waitForFits(checkpoint, 2, exit);
+    child.kill("SIGTERM");
+    const { code, stderr } = await exit;
+    expect(code).toBe(ExitCode.terminated);
+    const kept = fitsIn(checkpoint);
+    expect(stderr).toBe(
+      `headroom: interrupted after ${kept} of 10 fits (kept in ${checkpoint}); rerun the same command with --resume to continue\n`,
+    );
+    expect(existsSync(out)).toBe(false);
+
+    await runInProcess(["measure", digits, ...design, "--workers", "1", "--resume", "--out", out]);
+    expect(readFileSync(out).equals(await uninterrupted())).toBe(true);
+  });
 });
 
 describe("determinism", () => {

@@ -290,7 +290,8 @@ function recommendationReason(decision: DecisionFile, rows: Row[], currency?: st
 
 /**
  * The stopping rule in words: after how many runs to stop, because the next run's expected gain is
- * worth less than it costs (or it would not fit the budget or deadline).
+ * worth less than it costs and no further runs would pay for themselves (or the next run would not
+ * fit the budget or deadline).
  */
 function stoppingSentence(
   decision: DecisionFile,
@@ -314,7 +315,8 @@ function stoppingSentence(
   return (
     `By the stopping rule, ${when}: a ${ordinalInWords(next.runs)} run is expected to add a gain worth ` +
     `${formatMoney(worth, currency)}, ${worth < marginalCost ? "less" : "no more"} than the ` +
-    `${formatMoney(marginalCost, currency)} it costs.`
+    `${formatMoney(marginalCost, currency)} it costs` +
+    `${next.runs < decision.plan.maxRuns ? ", and no more runs would pay for themselves either" : ""}.`
   );
 }
 
@@ -826,7 +828,9 @@ function methodsSection(input: ReportInput, info: MetricInfo): string {
         `deadline.`,
     );
     if (decision.stopAfterRuns !== undefined && decision.stopAfterRuns !== null) {
-      weighing.push(`The stopping rule stops before the first run whose expected gain is worth less than its cost.`);
+      weighing.push(
+        `The stopping rule stops when no further number of runs within the budget and deadline is expected to add a gain worth more than it adds to the cost (so a fixed cost paid with the first run does not stop a programme that pays off over several runs).`,
+      );
     }
     if (decision.valueOfInformation) {
       cited.add("raiffa");

@@ -179,8 +179,11 @@ function rules(rows: DecisionRow[], resolved: ResolvedPlan, context: TableContex
   };
   const recommendedRuns = choose(candidates);
 
-  // Stopping rule: stop when the next run is not affordable or its expected gain is worth less than
-  // what it adds to the cost (the fixed cost comes with the first run).
+  // Stopping rule: after `runs` runs, stop when the next run is not affordable, or when no further
+  // number of runs within the budget and deadline is expected to add a gain worth more than what it
+  // adds to the cost. Looking past the next run matters when the first run carries a fixed cost (or
+  // gains come late): one run may not pay for itself while three do. With expected gains that shrink
+  // run by run and a constant cost per run it is the one-step look-ahead rule.
   let stopAfterRuns: number | null = null;
   let stopBecause: TableResult["stopBecause"] = "noValue";
   if (resolved.valueBasis !== "target") {
@@ -193,8 +196,18 @@ function rules(rows: DecisionRow[], resolved: ResolvedPlan, context: TableContex
         stopBecause = next.withinBudget ? "pastDeadline" : "overBudget";
         break;
       }
-      const worth = resolved.valuePerPoint * 100 * (next.marginalGain as number);
-      if (worth < next.cost - rows[runs].cost) {
+      let gain = 0;
+      let worthContinuing = false;
+      for (let further = runs + 1; further <= plan.maxRuns; further++) {
+        const row = rows[further];
+        if (!row.withinBudget || !row.withinDeadline) break;
+        gain += row.marginalGain as number;
+        if (resolved.valuePerPoint * 100 * gain > row.cost - rows[runs].cost) {
+          worthContinuing = true;
+          break;
+        }
+      }
+      if (!worthContinuing) {
         stopAfterRuns = runs;
         stopBecause = "notWorthIt";
         break;

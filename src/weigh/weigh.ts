@@ -353,7 +353,8 @@ function stopReason(result: TableResult, resolved: ResolvedPlan): string | null 
     default: {
       const worth = resolved.valuePerPoint * 100 * (next.marginalGain as number);
       const cost = next.cost - result.rows[runs].cost;
-      return `${stop}: ${ordinal} is expected to add a gain worth ${money(worth)}, less than the ${money(cost)} it costs.`;
+      const more = runs + 1 < resolved.plan.maxRuns ? "; no more runs would pay for themselves either" : "";
+      return `${stop}: ${ordinal} is expected to add a gain worth ${money(worth)}, less than the ${money(cost)} it costs${more}.`;
     }
   }
 }

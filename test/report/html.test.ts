@@ -435,7 +435,7 @@ describe("renderReportHtml", () => {
     // The third run adds 0.0045 × 100 points × 40,000 = 18,000, less than its 22,000.
     expect(page).toContain(
       "By the stopping rule, stop after two runs: a third run is expected to add a gain worth 18,000 EUR, less " +
-        "than the 22,000 EUR it costs.",
+        "than the 22,000 EUR it costs, and no more runs would pay for themselves either.",
     );
     expect(page).toContain(
       "To show with 95% confidence that the model reaches the target of 85%, a held-out test set of at least " +

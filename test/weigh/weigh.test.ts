@@ -85,10 +85,11 @@ describe("weighRuns", () => {
     expect(decision.table.map((r) => r.probabilityNetPositive)).toEqual([0, 1, 1, 0.75]);
     expect(decision.table[3].netValueLower).toBeCloseTo(-800, 6);
     expect(decision.table[3].netValueUpper).toBeCloseTo(8800, 6);
-    // Stopping rule: run 1 adds 0.05 × 400,000 = 20,000 for 10,000; run 2 adds 8,000 for 10,000: stop after 1.
+    // Stopping rule: run 1 adds 0.05 × 400,000 = 20,000 for 10,000; run 2 adds 8,000 for 10,000, and
+    // runs 2 and 3 together 12,000 for 20,000: stop after 1.
     expect(decision.stopAfterRuns).toBe(1);
     expect(decision.reasons.stopAfterRuns).toBe(
-      "Stop after 1 run: run 2 is expected to add a gain worth 8,000, less than the 10,000 it costs.",
+      "Stop after 1 run: run 2 is expected to add a gain worth 8,000, less than the 10,000 it costs; no more runs would pay for themselves either.",
     );
     expect(decision.table.every((r) => r.withinDeadline)).toBe(true);
   });
@@ -134,6 +135,29 @@ describe("weighRuns", () => {
 });
 
 describe("parallel runs, fixed cost and deadline", () => {
+  it("keeps going past a first run that does not pay for its fixed cost when later runs do", () => {
+    // Gains of 5, 2 and 1 points at 4,000 a point: 20,000, 8,000 and 4,000. The first run costs
+    // 6,000 + 15,000 fixed = 21,000 > 20,000, but two runs add 28,000 for 27,000. A rule that looked
+    // one run ahead would stop now while recommending 2 runs.
+    const plan = planSchema.parse({
+      samplesPerRun: 50,
+      costPerRun: 6000,
+      fixedCost: 15000,
+      maxRuns: 3,
+      valuePerPoint: 4000,
+    });
+    const decision = weighRuns(forecast(projections), plan);
+    expect(decision.table.map((r) => r.cost)).toEqual([0, 21000, 27000, 33000]);
+    const net = decision.table.map((r) => r.expectedNetValue);
+    [0, -1000, 1000, -1000].forEach((value, i) => expect(net[i]).toBeCloseTo(value, 6));
+    expect(decision.recommendedRuns).toBe(2);
+    // After 2 runs, run 3 adds 4,000 for 6,000: stop there.
+    expect(decision.stopAfterRuns).toBe(2);
+    expect(decision.reasons.stopAfterRuns).toBe(
+      "Stop after 2 runs: run 3 is expected to add a gain worth 4,000, less than the 6,000 it costs.",
+    );
+  });
+
   it("counts months as ceil(runs / parallelRuns) × monthsPerRun, the fixed cost once, and respects the deadline", () => {
     const plan = planSchema.parse({
       samplesPerRun: 50,

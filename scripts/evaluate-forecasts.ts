@@ -4,7 +4,8 @@
  *
  *     npx tsx scripts/evaluate-forecasts.ts [--suite open|generated|all] [--seeds N] [--workers W]
  *                                           [--family NAME] [--json results.json] [--verbose]
- *                                           [--cache DIR] [--only NAME,...]
+ *                                           [--cache DIR] [--only NAME,...] [--pilots P,...]
+ *                                           [--repeats R]
  *
  * For each data set and pilot size P, and each seed (5 per open data set, 3 per generated one, or
  * `--seeds N`): draw a stratified pilot subset of P rows, measure its curve
@@ -16,7 +17,7 @@
  * - open: the ten classification data sets in fixtures/open-data (breast_cancer, digits, wine, iris
  *   from scikit-learn; pima_diabetes, credit_g, ionosphere, segment, vote from Weka's examples; fair
  *   from statsmodels; all as shipped in Debian packages, see fixtures/open-data/README.md). Pilots of
- *   50, 100 and 200 rows where 3 times the pilot leaves held-out rows (else one pilot of a third of
+ *   50, 100, 200 and 400 rows where 3 times the pilot leaves held-out rows (else one pilot of a third of
  *   the largest target: 41 rows for iris). The truth at size n is the mean accuracy over 30
  *   stratified random draws of n training rows from the whole data set, each tested on the
  *   remaining rows; only sizes that leave at least max(25, 10%) rows for testing are used.
@@ -35,7 +36,8 @@
  *
  * Runs on the main thread by default: about 3 minutes for both suites on an idle core, up to 10 on
  * two busy shared ones.
- * `--only` keeps the data sets whose names start with one of the given names.
+ * `--only` keeps the data sets whose names start with one of the given names, `--pilots` the given
+ * pilot sizes; `--repeats` measures the pilots with R repeats instead of the default.
  * `--cache DIR` keeps the measured pilot curves and the truths in DIR and reuses them on the next
  * run (they depend only on the data set, pilot size and seed), so that a change to the forecast
  * alone can be checked in seconds.
@@ -96,6 +98,9 @@ const openDataSets = [
   "fair",
 ];
 const only = option("--only")?.split(",");
+const pilotsOption = option("--pilots")?.split(",").map(Number);
+const repeatsOption = option("--repeats");
+const repeats = repeatsOption === undefined ? undefined : Number(repeatsOption);
 const level = 0.8;
 
 // ---------------------------------------------------------------------------------------------
@@ -148,9 +153,9 @@ function openPopulation(name: string, seeds: number): Population {
     task: "classification",
   });
   const largestTarget = data.rows - Math.max(25, Math.ceil(0.1 * data.rows));
-  // Pilots of 50, 100 and 200 rows where 3 times the pilot can still be tested on held-out rows; a
+  // Pilots of 50, 100, 200 and 400 rows where 3 times the pilot can still be tested on held-out rows; a
   // data set too small for a 50-row pilot gets one pilot of a third of its largest target.
-  const usual = [50, 100, 200].filter((p) => 3 * p <= largestTarget);
+  const usual = [50, 100, 200, 400].filter((p) => 3 * p <= largestTarget);
   const pilotSizes = usual.length > 0 ? usual : [Math.floor(largestTarget / 3)];
   const all = Int32Array.from({ length: data.rows }, (_, i) => i);
   const truthDraws = 30;
@@ -352,14 +357,18 @@ console.log(
 for (const population of populations()) {
   if (only !== undefined && !only.some((name) => population.name.startsWith(name))) continue;
   for (const pilot of population.pilotSizes) {
+    if (pilotsOption !== undefined && !pilotsOption.includes(pilot)) continue;
     const targets = multiples.map((m) => m * pilot).filter((n) => n <= population.largestTarget);
     if (targets.length === 0) continue;
     for (let seed = 1; seed <= population.seeds; seed++) {
-      const curve = await cached<CurveFile>(`${population.name}-pilot${pilot}-seed${seed}`, () =>
-        measureCurve(population.drawPilot(pilot, new RandomStream(5001, pilot, seed)), `${population.name}-pilot`, {
-          seed,
-          workers,
-        }),
+      const curve = await cached<CurveFile>(
+        `${population.name}-pilot${pilot}-seed${seed}${repeats === undefined ? "" : `-repeats${repeats}`}`,
+        () =>
+          measureCurve(population.drawPilot(pilot, new RandomStream(5001, pilot, seed)), `${population.name}-pilot`, {
+            seed,
+            workers,
+            ...(repeats === undefined ? {} : { repeats }),
+          }),
       );
       for (const target of targets) {
         const truth = await cached(`${population.name}-truth${target}`, () => population.truth(target));

@@ -5,6 +5,7 @@
 // Data
 export { readCsv, parseCsv, readTextFile, type CsvTable } from "./data/csv.js";
 export { tableToDataset, type ColumnChoice } from "./data/tableToDataset.js";
+export { readDataset } from "./data/readDataset.js";
 export type { Dataset } from "./data/dataset.js";
 
 // Learners

@@ -3,8 +3,8 @@
  * line and the study runner compose.
  */
 import { basename } from "node:path";
-import { readCsv } from "./data/csv.js";
-import { tableToDataset, type ColumnChoice } from "./data/tableToDataset.js";
+import { readDataset } from "./data/readDataset.js";
+import type { ColumnChoice } from "./data/tableToDataset.js";
 import type { CurveFile } from "./curve/curveFile.js";
 import { measureCurve, resolveMeasureOptions, type MeasureOptions } from "./curve/measure.js";
 import { sha256OfFile } from "./io/files.js";
@@ -13,7 +13,7 @@ import { sha256OfFile } from "./io/files.js";
 export async function measureFile(file: string, options: ColumnChoice & MeasureOptions): Promise<CurveFile> {
   // The task (classes or a numeric target) decides how the label column is read.
   const { task } = resolveMeasureOptions(options);
-  const dataset = tableToDataset(readCsv(file), { ...options, task });
+  const dataset = readDataset(file, { ...options, task });
   return measureCurve(dataset, file, options, {
     label: options.label,
     ...(options.group === undefined ? {} : { group: options.group }),

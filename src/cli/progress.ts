@@ -2,7 +2,8 @@
  * The progress bar of long measurements, drawn on stderr only when it is a terminal. A resumed run
  * starts the bar at the fits its checkpoint already holds.
  */
-import { SingleBar } from "cli-progress";
+import type * as CliProgress from "cli-progress";
+import { createRequire } from "node:module";
 import type { CliIo } from "./io.js";
 
 export interface Progress {
@@ -14,6 +15,8 @@ export interface Progress {
 
 export function progressBar(io: CliIo, quiet: boolean): Progress {
   if (quiet || !io.stderrIsTerminal) return { stop: () => {} };
+  // Loaded only when a bar is drawn, and with `require` (a CommonJS module; see data/csv.ts).
+  const { SingleBar } = createRequire(import.meta.url)("cli-progress") as typeof CliProgress;
   const bar = new SingleBar({ format: "fits {bar} {value}/{total} | {eta}s left" });
   let active = false;
   return {

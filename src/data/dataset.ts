@@ -27,10 +27,13 @@ export interface Dataset {
   groupNames?: string[];
 }
 
-/** Copies the given rows of a data set's features into a new row-major matrix. */
-export function selectRows(data: Dataset, indices: ArrayLike<number>): Float64Array {
+/**
+ * Copies the given rows of a data set's features into a row-major matrix: a new one, or the start of
+ * `target` when given (it must hold at least rows × features values).
+ */
+export function selectRows(data: Dataset, indices: ArrayLike<number>, target?: Float64Array): Float64Array {
   const d = data.featureNames.length;
-  const out = new Float64Array(indices.length * d);
+  const out = target ? target.subarray(0, indices.length * d) : new Float64Array(indices.length * d);
   for (let i = 0; i < indices.length; i++) {
     const src = indices[i] * d;
     out.set(data.features.subarray(src, src + d), i * d);

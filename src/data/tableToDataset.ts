@@ -44,92 +44,206 @@ const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
  * @throws UsageError when a named column is absent; DataError for bad header or cells.
  */
 export function tableToDataset(table: CsvTable, choice: ColumnChoice): Dataset {
-  const { file, header, rows, lines } = table;
-  checkHeader(table);
-  const indexOf = (option: string, name: string): number => {
-    const index = header.indexOf(name);
-    if (index < 0) throw new UsageError(message.columnMissing(file, option, name, header));
-    return index;
-  };
-  const labelColumn = indexOf("--label", choice.label);
-  const groupColumn = choice.group === undefined ? -1 : indexOf("--group", choice.group);
-  const ignored = new Set((choice.ignore ?? []).map((name) => indexOf("--ignore", name)));
-  const featureColumns = header
-    .map((_, i) => i)
-    .filter((i) => i !== labelColumn && i !== groupColumn && !ignored.has(i));
-  if (featureColumns.length === 0) throw new DataError(message.noFeatures(file));
+  const builder = new DatasetBuilder(table.file, table.header, choice, table.rows.length);
+  table.rows.forEach((cells, r) => builder.addRow(cells, table.lines[r]));
+  return builder.finish(() => table.rows);
+}
 
-  const width = header.length;
-  const d = featureColumns.length;
-  const regression = choice.task === "regression";
-  const features = new Float64Array(rows.length * d);
-  const labelText: string[] = new Array(rows.length);
-  const targets = new Float64Array(regression ? rows.length : 0);
-  const groupText: string[] = [];
+/**
+ * {@link tableToDataset} a row at a time, so that a reader can convert each CSV row as it is parsed
+ * instead of first holding the whole file as rows of text (for 20,000 rows × 17 columns, 17 MiB of
+ * live strings and arrays). The checks and errors are tableToDataset's, raised in the same order:
+ * the header's in the constructor, each row's in `addRow`, the columns' and classes' in `finish`.
+ */
+export class DatasetBuilder {
+  private readonly labelColumn: number;
+  private readonly groupColumn: number;
+  private readonly featureColumns: number[];
+  private readonly regression: boolean;
+  private rows = 0;
+  private features: Float64Array;
+  private targets: Float64Array;
+  /** Index of each row's label (group) into `labelNames` (`groupNames`), in order of first appearance. */
+  private labelIds: Int32Array;
+  private groupIds: Int32Array;
+  private readonly labelNames = new Map<string, number>();
+  private readonly groupNames = new Map<string, number>();
   // Per feature column: how many cells were numbers and text, and where the first text cell was.
-  const numberCells = new Int32Array(d);
-  const textCells = new Int32Array(d);
-  const firstText: { row: number; text: string }[] = new Array(d);
-  for (let r = 0; r < rows.length; r++) {
-    const cells = rows[r];
-    if (cells.length !== width) throw new DataError(message.raggedRow(file, lines[r], width, cells.length));
+  private readonly numberCells: Int32Array;
+  private readonly textCells: Int32Array;
+  private readonly firstText: { line: number; text: string }[];
+
+  /**
+   * @param header the header's cells, trimmed
+   * @param expectedRows room for this many rows is made at once (more are welcome)
+   * @throws UsageError when a named column is absent; DataError for a bad header.
+   */
+  constructor(
+    private readonly file: string,
+    private readonly header: string[],
+    private readonly choice: ColumnChoice,
+    expectedRows = 64,
+  ) {
+    checkHeader(file, header);
+    const indexOf = (option: string, name: string): number => {
+      const index = header.indexOf(name);
+      if (index < 0) throw new UsageError(message.columnMissing(file, option, name, header));
+      return index;
+    };
+    this.labelColumn = indexOf("--label", choice.label);
+    this.groupColumn = choice.group === undefined ? -1 : indexOf("--group", choice.group);
+    const ignored = new Set((choice.ignore ?? []).map((name) => indexOf("--ignore", name)));
+    this.featureColumns = header
+      .map((_, i) => i)
+      .filter((i) => i !== this.labelColumn && i !== this.groupColumn && !ignored.has(i));
+    if (this.featureColumns.length === 0) throw new DataError(message.noFeatures(file));
+    this.regression = choice.task === "regression";
+    const d = this.featureColumns.length;
+    const capacity = Math.max(1, expectedRows);
+    this.features = sharedDoubles(capacity * d);
+    this.targets = new Float64Array(this.regression ? capacity : 0);
+    this.labelIds = new Int32Array(this.regression ? 0 : capacity);
+    this.groupIds = new Int32Array(this.groupColumn >= 0 ? capacity : 0);
+    this.numberCells = new Int32Array(d);
+    this.textCells = new Int32Array(d);
+    this.firstText = new Array(d);
+  }
+
+  /**
+   * Converts one data row (its cells untrimmed, as parsed) starting on `line`.
+   * @throws DataError for a ragged row, an empty label, a target that is not a number, or a cell that
+   *   is NaN, Infinity or too large.
+   */
+  addRow(cells: string[], line: number): void {
+    const { file, header, featureColumns, labelColumn, groupColumn, choice } = this;
+    const width = header.length;
+    const d = featureColumns.length;
+    if (cells.length !== width) throw new DataError(message.raggedRow(file, line, width, cells.length));
+    const r = this.rows;
+    if (r === this.capacity()) this.grow();
     const label = cells[labelColumn].trim();
-    if (label === "") throw new DataError(message.labelMissing(file, lines[r], labelColumn + 1, choice.label));
-    labelText[r] = label;
-    if (regression) {
-      const target = readNumber(label, file, lines[r], labelColumn + 1, choice.label);
+    if (label === "") throw new DataError(message.labelMissing(file, line, labelColumn + 1, choice.label));
+    if (this.regression) {
+      const target = readNumber(label, file, line, labelColumn + 1, choice.label);
       if (target === undefined || Number.isNaN(target))
-        throw new DataError(message.targetNotNumber(file, lines[r], labelColumn + 1, choice.label, label));
-      targets[r] = target;
-    }
-    if (groupColumn >= 0) groupText.push(cells[groupColumn].trim());
+        throw new DataError(message.targetNotNumber(file, line, labelColumn + 1, choice.label, label));
+      this.targets[r] = target;
+    } else this.labelIds[r] = idOf(this.labelNames, label);
+    if (groupColumn >= 0) this.groupIds[r] = idOf(this.groupNames, cells[groupColumn].trim());
+    const features = this.features;
     for (let j = 0; j < d; j++) {
       const c = featureColumns[j];
-      const value = readNumber(cells[c].trim(), file, lines[r], c + 1, header[c]);
+      const value = readNumber(cells[c].trim(), file, line, c + 1, header[c]);
       if (value === undefined) {
-        if (textCells[j]++ === 0) firstText[j] = { row: r, text: cells[c].trim() };
+        if (this.textCells[j]++ === 0) this.firstText[j] = { line, text: cells[c].trim() };
         features[r * d + j] = NaN;
       } else {
-        if (!Number.isNaN(value)) numberCells[j]++;
+        if (!Number.isNaN(value)) this.numberCells[j]++;
         features[r * d + j] = value;
       }
     }
+    this.rows++;
   }
 
-  // Text columns: categorical when mostly text, an error at the first text cell when mostly numbers.
-  const categories: (string[] | null)[] = featureColumns.map((c, j) => {
-    if (textCells[j] === 0) return null;
-    if (textCells[j] <= numberCells[j]) {
-      const { row, text } = firstText[j];
-      throw new DataError(message.mixedColumn(file, lines[row], c + 1, header[c], text));
+  /**
+   * The data set of the rows added.
+   * @param rowsAgain the data rows once more, in the same order: read only when some column holds
+   *   text, to name its categories as written
+   * @throws DataError for a mostly numeric column with text in it, or a single class.
+   */
+  finish(rowsAgain: () => readonly string[][]): Dataset {
+    const { file, header, featureColumns, choice, rows } = this;
+    const d = featureColumns.length;
+    let features = this.features;
+    if (features.length !== rows * d) {
+      features = sharedDoubles(rows * d);
+      features.set(this.features.subarray(0, rows * d));
     }
-    return encodeCategories(rows, c, j, d, features);
-  });
+    // Text columns: categorical when mostly text, an error at the first text cell when mostly numbers.
+    featureColumns.forEach((c, j) => {
+      if (this.textCells[j] > 0 && this.textCells[j] <= this.numberCells[j]) {
+        const { line, text } = this.firstText[j];
+        throw new DataError(message.mixedColumn(file, line, c + 1, header[c], text));
+      }
+    });
+    const textColumns = featureColumns.some((_, j) => this.textCells[j] > 0);
+    const table = textColumns ? rowsAgain() : [];
+    const categories: (string[] | null)[] = featureColumns.map((c, j) =>
+      this.textCells[j] === 0 ? null : encodeCategories(table, c, j, d, features),
+    );
 
-  const classNames = regression ? [] : [...new Set(labelText)].sort(compareStrings);
-  if (!regression && classNames.length < 2) throw new DataError(message.oneClass(file, choice.label, classNames[0]));
-  const classIndex = new Map(classNames.map((name, i) => [name, i]));
-  const labels = regression ? new Int32Array(0) : Int32Array.from(labelText, (name) => classIndex.get(name) as number);
-
-  const dataset: Dataset = {
-    features,
-    rows: rows.length,
-    featureNames: featureColumns.map((c) => header[c]),
-    labels,
-    classNames,
-  };
-  if (regression) dataset.targets = targets;
-  if (categories.some((names) => names !== null)) dataset.categories = categories;
-  if (groupColumn >= 0) {
-    const groupNames = [...new Set(groupText)].sort(compareStrings);
-    const groupIndex = new Map(groupNames.map((name, i) => [name, i]));
-    dataset.groups = Int32Array.from(groupText, (name) => groupIndex.get(name) as number);
-    dataset.groupNames = groupNames;
+    const classNames = this.regression ? [] : sortedNames(this.labelNames);
+    if (!this.regression && classNames.length < 2)
+      throw new DataError(message.oneClass(file, choice.label, classNames[0]));
+    const dataset: Dataset = {
+      features,
+      rows,
+      featureNames: featureColumns.map((c) => header[c]),
+      labels: this.regression ? new Int32Array(0) : renumbered(this.labelIds, rows, this.labelNames, classNames),
+      classNames,
+    };
+    if (this.regression) dataset.targets = this.targets.slice(0, rows);
+    if (categories.some((names) => names !== null)) dataset.categories = categories;
+    if (this.groupColumn >= 0) {
+      const groupNames = sortedNames(this.groupNames);
+      dataset.groups = renumbered(this.groupIds, rows, this.groupNames, groupNames);
+      dataset.groupNames = groupNames;
+    }
+    return dataset;
   }
-  return dataset;
+
+  private capacity(): number {
+    return this.features.length / this.featureColumns.length;
+  }
+
+  /** Doubles the room for rows. */
+  private grow(): void {
+    const features = sharedDoubles(this.features.length * 2);
+    features.set(this.features);
+    this.features = features;
+    this.targets = doubled(this.targets);
+    this.labelIds = doubled(this.labelIds);
+    this.groupIds = doubled(this.groupIds);
+  }
 }
 
-function checkHeader({ file, header }: CsvTable): void {
+/**
+ * A Float64Array over shared memory. The features live there from the start: worker threads read them
+ * without a copy (curve/sharedDataset.ts keeps arrays already shared), so a measurement with worker
+ * threads does not hold them twice.
+ */
+function sharedDoubles(length: number): Float64Array {
+  return new Float64Array(new SharedArrayBuffer(length * Float64Array.BYTES_PER_ELEMENT));
+}
+
+/** A copy of `array` twice as long (an empty array stays empty: that column is not kept). */
+function doubled<T extends Float64Array | Int32Array>(array: T): T {
+  if (array.length === 0) return array;
+  const copy = new (array.constructor as new (length: number) => T)(array.length * 2);
+  copy.set(array);
+  return copy;
+}
+
+/** The id of `name` in `ids`, given the next id when it is new. */
+function idOf(ids: Map<string, number>, name: string): number {
+  let id = ids.get(name);
+  if (id === undefined) ids.set(name, (id = ids.size));
+  return id;
+}
+
+/** The names of `ids`, sorted as strings. */
+function sortedNames(ids: Map<string, number>): string[] {
+  return [...ids.keys()].sort(compareStrings);
+}
+
+/** The first `rows` ids, each turned from its order of first appearance into its name's place in `names`. */
+function renumbered(ids: Int32Array, rows: number, byName: Map<string, number>, names: string[]): Int32Array {
+  const place = new Int32Array(names.length);
+  names.forEach((name, index) => (place[byName.get(name)!] = index));
+  return Int32Array.from(ids.subarray(0, rows), (id) => place[id]);
+}
+
+function checkHeader(file: string, header: string[]): void {
   const seen = new Map<string, number>();
   header.forEach((name, i) => {
     if (name === "") throw new DataError(message.emptyColumnName(file, i + 1));
@@ -161,7 +275,13 @@ function readNumber(cell: string, file: string, line: number, column: number, co
  * strings become the category names, and each row's value becomes its category's index (NaN when
  * missing). Returns the names.
  */
-function encodeCategories(rows: string[][], c: number, j: number, d: number, features: Float64Array): string[] {
+function encodeCategories(
+  rows: readonly string[][],
+  c: number,
+  j: number,
+  d: number,
+  features: Float64Array,
+): string[] {
   const cells = rows.map((cells) => cells[c].trim());
   const names = [...new Set(cells.filter((cell) => !MISSING.has(cell)))].sort(compareStrings);
   const index = new Map(names.map((name, k) => [name, k]));

@@ -18,7 +18,7 @@
  * contain one of those words. Needs Debian's python3-sklearn.
  */
 import { spawnSync } from "node:child_process";
-import { copyFileSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { copyFileSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { packageRoot } from "../src/packageRoot.js";
@@ -111,6 +111,13 @@ function runScikitLearn(file: string): ScikitLearnSide {
   return { seconds, ...parsed };
 }
 
+/** The load averages over 1, 5 and 15 minutes. */
+function load(): string {
+  return loadavg()
+    .map((l) => l.toFixed(1))
+    .join(" ");
+}
+
 function fastest<T extends Side>(sides: T[]): T {
   return sides.reduce((a, b) => (b.seconds < a.seconds ? b : a));
 }
@@ -127,10 +134,6 @@ if (check.status !== 0) {
   process.stderr.write("bench: needs Debian's python3-sklearn (apt-get install python3-sklearn)\n");
   process.exitCode = 1;
 } else {
-  const load = () =>
-    loadavg()
-      .map((l) => l.toFixed(1))
-      .join(" ");
   process.stdout.write(
     `scikit-learn ${check.stdout.trim()} vs headroom, whole-process wall time (best of ${runs}), ` +
       `processor time and peak memory; load average ${load()}\n`,
@@ -142,39 +145,45 @@ if (check.status !== 0) {
   );
   for (const [name, make] of sets) {
     if (only && !only.some((word) => name.toLowerCase().includes(word))) continue;
-    const file = make();
-    const sk: ScikitLearnSide[] = [];
-    const one: Side[] = [];
-    const two: Side[] = [];
-    for (let run = 0; run < runs; run++) {
-      sk.push(runScikitLearn(file));
-      one.push(runHeadroom(file, 1, sk[0].trainingSizes));
-      two.push(runHeadroom(file, 2, sk[0].trainingSizes));
-    }
-    const s = fastest(sk);
-    const h1 = fastest(one);
-    const h2 = fastest(two);
-    const peakHeadroom = Math.max(h1.peakMemoryKiB, h2.peakMemoryKiB);
-    const delta = Math.max(...s.meanScores.map((v, i) => Math.abs(v - h1.meanScores[i])));
-    const identical = [...one, ...two].every((side) => side.curve === one[0].curve);
-    process.stdout.write(
-      [
-        name,
-        s.seconds.toFixed(2),
-        h1.seconds.toFixed(2),
-        (h1.seconds / s.seconds).toFixed(2),
-        h2.seconds.toFixed(2),
-        (h2.seconds / s.seconds).toFixed(2),
-        s.cpuSeconds.toFixed(2),
-        h1.cpuSeconds.toFixed(2),
-        (h1.cpuSeconds / s.cpuSeconds).toFixed(2),
-        (s.peakMemoryKiB / 1024).toFixed(0),
-        (peakHeadroom / 1024).toFixed(0),
-        (peakHeadroom / s.peakMemoryKiB).toFixed(2),
-        delta.toFixed(3),
-        identical ? "yes" : "NO",
-        load(),
-      ].join(" | ") + "\n",
-    );
+    runSet(name, make);
   }
+}
+rmSync(work, { recursive: true, force: true });
+
+/** Runs one data set on both sides and prints its row of the table. */
+function runSet(name: string, make: () => string): void {
+  const file = make();
+  const sk: ScikitLearnSide[] = [];
+  const one: Side[] = [];
+  const two: Side[] = [];
+  for (let run = 0; run < runs; run++) {
+    sk.push(runScikitLearn(file));
+    one.push(runHeadroom(file, 1, sk[0].trainingSizes));
+    two.push(runHeadroom(file, 2, sk[0].trainingSizes));
+  }
+  const s = fastest(sk);
+  const h1 = fastest(one);
+  const h2 = fastest(two);
+  const peakHeadroom = Math.max(h1.peakMemoryKiB, h2.peakMemoryKiB);
+  const delta = Math.max(...s.meanScores.map((v, i) => Math.abs(v - h1.meanScores[i])));
+  const identical = [...one, ...two].every((side) => side.curve === one[0].curve);
+  process.stdout.write(
+    [
+      name,
+      s.seconds.toFixed(2),
+      h1.seconds.toFixed(2),
+      (h1.seconds / s.seconds).toFixed(2),
+      h2.seconds.toFixed(2),
+      (h2.seconds / s.seconds).toFixed(2),
+      s.cpuSeconds.toFixed(2),
+      h1.cpuSeconds.toFixed(2),
+      (h1.cpuSeconds / s.cpuSeconds).toFixed(2),
+      (s.peakMemoryKiB / 1024).toFixed(0),
+      (peakHeadroom / 1024).toFixed(0),
+      (peakHeadroom / s.peakMemoryKiB).toFixed(2),
+      delta.toFixed(3),
+      identical ? "yes" : "NO",
+      load(),
+    ].join(" | ") + "\n",
+  );
 }

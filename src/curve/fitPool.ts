@@ -3,20 +3,41 @@
  * in task order. Results do not depend on the number of workers: each task's numbers follow from the task
  * and the seed alone.
  *
- * Hand-written over node:worker_threads rather than a pool library: the pool is a queue of plain
- * tasks with one setup message per worker (the data set is sent once, not with every task), which is
- * a few dozen lines.
+ * Hand-written over node:worker_threads rather than a pool library. Every thread, the main one
+ * included, claims the next task from one counter in shared memory (`Atomics.add`), so no thread waits
+ * for another to hand it work, and each worker receives the data set and the task list once.
+ *
+ * The main thread starts fitting at once, and starts the worker threads only once the tasks left
+ * besides its next one, at the pace of its last task, would take it a second or more (`poolSettings`):
+ * a worker thread takes 0.1 to 0.3 s to start and load its modules, and its first task runs several
+ * times slower than later ones while V8 compiles its code, all on a processor the main thread could
+ * use (measured on a shared 2-core machine, a small curve, of breast cancer or 5,000 rows × 20
+ * features, took a fifth longer with a worker than without). So `workers` is the most threads a run
+ * uses.
+ *
+ * Once every task is claimed, the main thread may run again a task a worker thread is still fitting;
+ * the first of the two to finish counts, since a task's scores are the same wherever it runs. A
+ * worker's first tasks run slowly, so the last worker task could otherwise leave the run slower than
+ * with no worker at all. The main thread does so only when it expects to finish first: the worker's
+ * last task took longer than the main thread's last task plus the time the worker has already spent
+ * on this one (or the worker has finished none yet); the main thread cannot stop halfway, so a copy
+ * that loses only delays the end.
  */
 import { Worker } from "node:worker_threads";
 import type { Dataset } from "../data/dataset.js";
 import { InterruptedError } from "../errors.js";
+import { releaseScratch } from "../learners/scratch.js";
+import { releaseSoftmaxMemory } from "../learners/softmaxKernel.js";
 import { message as messages } from "../messages.js";
 import { runFitTask, type FitPlan, type FitTask } from "./fitTask.js";
 import type { FromWorker, ToWorker } from "./fitWorker.js";
 import { shareDataset } from "./sharedDataset.js";
 
 export interface PoolOptions {
-  /** Threads fitting at once, the main thread included; 1 runs everything on the main thread. */
+  /**
+   * The most threads fitting at once, the main thread included; 1 runs everything on the main thread.
+   * Worker threads start only when the work left makes them worth it (see above).
+   */
   workers: number;
   /** Called after each finished task. */
   onTaskDone?: (done: number, total: number) => void;
@@ -28,12 +49,39 @@ export interface PoolOptions {
   signal?: AbortSignal;
 }
 
+/** Settings of the pool, changed only by tests (to have worker threads start at once). */
+export const poolSettings = {
+  /**
+   * Work left, in milliseconds at the pace of the main thread's last task, that makes worker threads
+   * worth starting: about four times a worker thread's start-up (see above).
+   */
+  workerWorthMilliseconds: 1000,
+};
+
+/** The fit worker's module: from TypeScript source, a small .mjs shim registers tsx in the worker first. */
+function workerUrl(): URL {
+  return import.meta.url.endsWith(".ts")
+    ? new URL("./fitWorkerFromSource.mjs", import.meta.url)
+    : new URL("./fitWorker.js", import.meta.url);
+}
+
 export async function runFitTasks(
   data: Dataset,
   plan: FitPlan,
   tasks: FitTask[],
   options: PoolOptions,
 ): Promise<number[][]> {
+  try {
+    return await runPool(data, plan, tasks, options);
+  } finally {
+    // The fits' work arrays on this thread, as large as the largest fit's rows, are not kept once the
+    // measurement ends (worker threads end with it).
+    releaseScratch();
+    releaseSoftmaxMemory();
+  }
+}
+
+async function runPool(data: Dataset, plan: FitPlan, tasks: FitTask[], options: PoolOptions): Promise<number[][]> {
   const results: number[][] = new Array(tasks.length);
   const pending = tasks.filter((task) => {
     const scores = options.completed?.get(task.index);
@@ -58,18 +106,19 @@ export async function runFitTasks(
     }
     return results;
   }
-  // From TypeScript source, a small .mjs shim registers tsx in the worker before loading it.
-  const workerUrl = import.meta.url.endsWith(".ts")
-    ? new URL("./fitWorkerFromSource.mjs", import.meta.url)
-    : new URL("./fitWorker.js", import.meta.url);
   if (options.signal?.aborted) throw interrupted();
-  // Shared memory: workers read one copy of the data set instead of a copy each.
-  const sharedData = shareDataset(data);
-  // The main thread runs tasks too, beside workers − 1 worker threads: a thread takes a few tenths
-  // of a second to start and load the modules, during which the main thread is already fitting (a
-  // small job may be done before any thread is ready), and each holds its own modules and heap.
-  const pool = Array.from({ length: workers - 1 }, () => new Worker(workerUrl));
-  let next = 0;
+  // The main thread runs tasks too, beside up to workers − 1 worker threads, started once worth it.
+  const pool: Worker[] = [];
+  // The position in `pending` of the next task to claim, shared by all threads, and for each position
+  // when and by which worker (numbered from 1; 0 for the main thread) it was claimed.
+  const claims = new Int32Array(new SharedArrayBuffer(Int32Array.BYTES_PER_ELEMENT));
+  const claimedAt = new Float64Array(new SharedArrayBuffer(pending.length * Float64Array.BYTES_PER_ELEMENT));
+  const claimedBy = new Int32Array(new SharedArrayBuffer(pending.length * Int32Array.BYTES_PER_ELEMENT));
+  // Positions the main thread has run (or is running), so that it runs each at most once.
+  const ranOnMain = new Uint8Array(pending.length);
+  // How long the last task took on the main thread and on each worker (Infinity: none yet).
+  let mainMilliseconds = Infinity;
+  const workerMilliseconds = new Array<number>(workers).fill(Infinity);
   let onAbort: (() => void) | undefined;
   let stopped = false;
   try {
@@ -80,52 +129,88 @@ export async function runFitTasks(
       };
       const reject = (error: unknown) => {
         stopped = true;
+        // Worker threads claim no further task.
+        Atomics.store(claims, 0, pending.length);
         rejectPool(error);
       };
       onAbort = () => reject(interrupted());
       options.signal?.addEventListener("abort", onAbort, { once: true });
-      // Tasks queued per worker thread: two while many remain, so that it never waits for the main
-      // thread, busy with a task of its own, to hand it the next; one near the end, so that no thread
-      // holds a queued task while another has none.
-      const queued = new Map<Worker, number>();
-      const feed = (worker: Worker) => {
-        const depth = pending.length - next >= 2 * workers ? 2 : 1;
-        while ((queued.get(worker) ?? 0) < depth && next < pending.length) {
-          worker.postMessage({ kind: "task", task: pending[next++] } satisfies ToWorker);
-          queued.set(worker, (queued.get(worker) ?? 0) + 1);
-        }
-      };
-      // One task at a time on the main thread, yielding between tasks so that the workers' results
-      // (and a Ctrl-C) are handled.
-      const runOnMainThread = () => {
-        if (stopped || next >= pending.length) return;
-        const task = pending[next++];
+      // A task's scores, from whichever thread finishes it first (a second copy is ignored).
+      const record = (index: number, scores: number[]) => {
+        if (stopped || results[index] !== undefined) return;
         try {
-          finish(task.index, runFitTask(data, plan, task));
+          finish(index, scores);
         } catch (error) {
           return reject(error);
         }
         if (done === tasks.length) resolve();
-        else setImmediate(runOnMainThread);
       };
-      for (const worker of pool) {
-        worker.on("message", (message: FromWorker) => {
-          // Tasks go to a worker thread once it is ready.
-          if (message.kind === "ready") return feed(worker);
-          if (message.kind === "failed")
-            return reject(new Error(`a fit failed in a worker thread: ${message.message}`));
-          try {
-            finish(message.index, message.scores);
-          } catch (error) {
-            return reject(error);
-          }
-          queued.set(worker, queued.get(worker)! - 1);
-          if (done === tasks.length) resolve();
-          else feed(worker);
-        });
-        worker.on("error", reject);
-        worker.postMessage({ kind: "setup", data: sharedData, plan } satisfies ToWorker);
-      }
+      // Starts the worker threads, each told the data set (in shared memory: one copy for all), the
+      // plan and the tasks once.
+      const startWorkers = () => {
+        const sharedData = shareDataset(data);
+        for (let number = 1; number < workers; number++) {
+          const worker = new Worker(workerUrl());
+          pool.push(worker);
+          worker.on("message", (message: FromWorker) => {
+            if (message.kind === "failed")
+              return reject(new Error(`a fit failed in a worker thread: ${message.message}`));
+            workerMilliseconds[number] = message.milliseconds;
+            record(message.index, message.scores);
+          });
+          worker.on("error", reject);
+          // A worker thread ends by itself (code 0) once no task is left to claim.
+          worker.on("exit", (code) => {
+            if (code !== 0) reject(new Error(`a fit worker thread stopped (exit code ${code})`));
+          });
+          worker.postMessage({
+            kind: "setup",
+            data: sharedData,
+            plan,
+            tasks: pending,
+            claims,
+            claimedAt,
+            claimedBy,
+            worker: number,
+          } satisfies ToWorker);
+        }
+      };
+      // Every task is claimed: the position of a task a worker thread is fitting that the main
+      // thread expects to finish sooner, or −1.
+      const lateTask = (): number => {
+        const now = Date.now();
+        for (let position = pending.length - 1; position >= 0; position--) {
+          if (ranOnMain[position] === 1 || results[pending[position].index] !== undefined) continue;
+          const worker = Atomics.load(claimedBy, position);
+          const remaining = workerMilliseconds[worker] - (now - claimedAt[position]);
+          if (worker > 0 && mainMilliseconds < remaining) return position;
+        }
+        return -1;
+      };
+      const runOnMainThread = () => {
+        if (stopped) return;
+        let position = Atomics.add(claims, 0, 1);
+        if (position >= pending.length) position = lateTask();
+        // Nothing left to run here: the workers' results will end the run.
+        if (position < 0) return;
+        ranOnMain[position] = 1;
+        const task = pending[position];
+        const begun = Date.now();
+        let scores: number[];
+        try {
+          scores = runFitTask(data, plan, task);
+        } catch (error) {
+          return reject(error);
+        }
+        mainMilliseconds = Date.now() - begun;
+        record(task.index, scores);
+        if (stopped) return;
+        // Tasks left for worker threads, besides the one this thread claims next.
+        const left = pending.length - Math.min(pending.length, Atomics.load(claims, 0)) - 1;
+        if (pool.length === 0 && left * mainMilliseconds >= poolSettings.workerWorthMilliseconds) startWorkers();
+        // Yield between tasks, so that the workers' results (and a Ctrl-C) are handled.
+        setImmediate(runOnMainThread);
+      };
       setImmediate(runOnMainThread);
     });
   } finally {

@@ -15,6 +15,7 @@
 import { selectLabels, selectRows, type Dataset } from "../data/dataset.js";
 import type { FittedModel, Learner, LearnerSettings, RegressionLearner } from "../learners/learner.js";
 import { createLearner, createRegressionLearner } from "../learners/registry.js";
+import { scratchDoubles } from "../learners/scratch.js";
 import { RandomStream } from "../random.js";
 import { groupKFold } from "../splitters/groupKFold.js";
 import { kFold } from "../splitters/kFold.js";
@@ -91,15 +92,21 @@ export function runFitTask(data: Dataset, plan: FitPlan, task: FitTask): number[
   const metric = findMetric(plan.metric);
   if (!learner || !metric) throw new Error(`unknown learner or metric in fit plan: ${plan.learner}, ${plan.metric}`);
   const grid = plan.tune ? tuningGridOf(learner) : undefined;
-  const test = heldOut(data, task.test);
+  // The held-out rows and the nested training rows are copied into work arrays of this thread
+  // (learners/scratch.ts), reused by its next task.
+  const columns = data.featureNames.length;
+  const test = heldOut(data, task.test, scratchDoubles("fitTask.heldOut", task.test.length * columns));
   const scores: number[] = [];
   const chosen: number[] = [];
   // The sizes run in increasing order on nested rows: each fit may warm-start from the previous one,
   // and reads its features as a prefix of the longest training set's, selected once.
   const warm: WarmStart = {};
   const longest = Math.max(0, ...plan.trainingSizes.map((size, s) => task.prefixLengths?.[s] ?? size));
-  const nestedFeatures = selectRows(data, task.orderedTrain.subarray(0, longest));
-  const columns = data.featureNames.length;
+  const nestedFeatures = selectRows(
+    data,
+    task.orderedTrain.subarray(0, longest),
+    scratchDoubles("fitTask.training", longest * columns),
+  );
   plan.trainingSizes.forEach((size, s) => {
     const rows = task.orderedTrain.subarray(0, task.prefixLengths?.[s] ?? size);
     let choice = -1;
@@ -124,10 +131,11 @@ interface HeldOut {
   targets: Float64Array;
 }
 
-function heldOut(data: Dataset, rows: ArrayLike<number>): HeldOut {
+/** The held-out rows; their features in the start of `target` when given. */
+function heldOut(data: Dataset, rows: ArrayLike<number>, target?: Float64Array): HeldOut {
   return {
     rows: rows.length,
-    features: selectRows(data, rows),
+    features: selectRows(data, rows, target),
     labels: data.targets ? new Int32Array(0) : selectLabels(data, rows),
     targets: data.targets ? selectTargets(data.targets, rows) : new Float64Array(0),
   };
@@ -177,7 +185,9 @@ function fitAndScore(
   const training = { features, rows: train.length, columns, labels, classCount, categories };
   const model = learner.fit(training, random, warm?.model);
   if (warm) warm.model = model;
-  return metric.score(test.labels, model.predictProbabilities(test.features, test.rows), classCount);
+  // The probabilities are scored at once, so they may go to a work array of this thread.
+  const target = scratchDoubles("fitTask.probabilities", test.rows * classCount);
+  return metric.score(test.labels, model.predictProbabilities(test.features, test.rows, target), classCount);
 }
 
 /**

@@ -71,7 +71,10 @@ export interface MeasureOptions {
   tune?: boolean;
   /** Measure against whole runs: training sets of whole runs, sizes in runs (needs a run column). @default false */
   byRuns?: boolean;
-  /** Worker threads. @default 1 */
+  /**
+   * The most threads fitting at once, the main thread included; worker threads start only once the
+   * work left makes them worth their start-up (see curve/fitPool.ts). @default 1
+   */
   workers?: number;
   /** Called after each (repeat, fold) task. */
   onProgress?: (done: number, total: number) => void;

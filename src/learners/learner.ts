@@ -59,8 +59,11 @@ export interface FittedModel {
   /**
    * Class probabilities for each row: row-major `rows × classCount`.
    * @param features row-major, `rows × columns`
+   * @param target where the caller would like them written (at least `rows × classCount` values), to
+   *   spare an allocation per prediction: a model may write them into its start and return that view
+   *   (then valid only until the caller reuses `target`), or ignore it and return a new array
    */
-  predictProbabilities(features: Float64Array, rows: number): Float64Array;
+  predictProbabilities(features: Float64Array, rows: number, target?: Float64Array): Float64Array;
 }
 
 export interface Learner {

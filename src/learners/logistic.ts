@@ -46,6 +46,7 @@ import { DataError, FitError, UsageError } from "../errors.js";
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
+import { scratchDoubles, scratchIntegers } from "./scratch.js";
 import { checkSettingNames } from "./settings.js";
 import { SoftmaxLoss } from "./softmaxKernel.js";
 
@@ -149,11 +150,13 @@ export class LogisticRegression implements Learner {
         true,
       );
     }
-    const x = preprocessor.transform(features, rows);
+    // The standardized rows and the labels are work arrays of this thread (scratch.ts): the fitters
+    // read them only while they run.
+    const x = preprocessor.transform(features, rows, scratchDoubles("logistic.training", rows * width));
     // Labels renumbered over the classes present: 0 .. present.length − 1.
     const position = new Int32Array(classCount).fill(-1);
     present.forEach((k, index) => (position[k] = index));
-    const y = new Int32Array(rows);
+    const y = scratchIntegers("logistic.labels", rows);
     for (let i = 0; i < rows; i++) y[i] = position[labels[i]];
 
     const start = previous instanceof FittedLogistic ? warmStart(previous, preprocessor, classes) : undefined;
@@ -200,14 +203,15 @@ export class FittedLogistic implements FittedModel {
   ) {}
 
   /**
-   * Class probabilities, row-major `rows × classCount`.
+   * Class probabilities, row-major `rows × classCount`: in a new array, or in the start of `target`
+   * when given (see {@link FittedModel.predictProbabilities}).
    * @throws DataError when the features do not hold rows × columns values or a value is ±Infinity.
    */
-  predictProbabilities(features: Float64Array, rows: number): Float64Array {
+  predictProbabilities(features: Float64Array, rows: number, target?: Float64Array): Float64Array {
     const { classCount, classes, coefficients, intercepts } = this;
     const columns = this.preprocessor.outputColumns;
-    const out = new Float64Array(rows * classCount);
-    const x = this.preprocessor.transform(features, rows);
+    const out = probabilityArray(rows, classCount, target);
+    const x = this.preprocessor.transform(features, rows, scratchDoubles("logistic.prediction", rows * columns));
     const present = classes.length;
     if (present === 1) {
       for (let i = 0; i < rows; i++) out[i * classCount + classes[0]] = 1;
@@ -245,6 +249,16 @@ export class FittedLogistic implements FittedModel {
     }
     return out;
   }
+}
+
+/**
+ * Where `predictProbabilities` writes: the zeroed start of `target` when it is given and long enough,
+ * else a new array.
+ */
+function probabilityArray(rows: number, classCount: number, target: Float64Array | undefined): Float64Array {
+  const length = rows * classCount;
+  if (target === undefined || !(length <= target.length)) return new Float64Array(length);
+  return target.subarray(0, length).fill(0);
 }
 
 interface LinearFit {
@@ -329,45 +343,23 @@ function fitBinary(
 ): LinearFit {
   const m = p + 1;
   const lambda = 1 / (options.C * n);
-  const z = new Float64Array(n);
-  const weights = new Float64Array(n);
+  // Work arrays of this thread (scratch.ts), all written before they are read.
+  const work = scratchDoubles("logistic.newton", n + 5 * m + 2 * m * m);
+  let used = 0;
+  const take = (length: number) => work.subarray(used, (used += length));
+  const weights = take(n);
+  const objective = (theta: Float64Array, gradient: Float64Array): number =>
+    binaryObjective(x, y, n, p, lambda, theta, gradient, weights);
 
-  /** f(θ); when `gradient` is given, also fills it and the IRLS weights pᵢ(1 − pᵢ). */
-  const objective = (theta: Float64Array, gradient: Float64Array | null): number => {
-    const b = theta[p];
-    let loss = 0;
-    if (gradient) gradient.fill(0);
-    for (let i = 0; i < n; i++) {
-      const offset = i * p;
-      let s = b;
-      for (let j = 0; j < p; j++) s += theta[j] * x[offset + j];
-      z[i] = s;
-      loss += softplus(s) - (y[i] === 1 ? s : 0);
-      if (gradient) {
-        const prob = sigmoid(s);
-        const r = prob - y[i];
-        weights[i] = prob * (1 - prob);
-        if (r !== 0) {
-          for (let j = 0; j < p; j++) gradient[j] += r * x[offset + j];
-          gradient[p] += r;
-        }
-      }
-    }
-    let penalty = 0;
-    for (let j = 0; j < p; j++) penalty += theta[j] * theta[j];
-    if (gradient) {
-      for (let j = 0; j < m; j++) gradient[j] /= n;
-      for (let j = 0; j < p; j++) gradient[j] += lambda * theta[j];
-    }
-    return loss / n + (lambda * penalty) / 2;
-  };
-
-  let theta = start ? start.slice() : new Float64Array(m);
-  let trial = new Float64Array(m);
-  let gradient = new Float64Array(m);
-  let trialGradient = new Float64Array(m);
-  const hessian = new Float64Array(m * m);
-  const step = new Float64Array(m);
+  let theta = take(m);
+  if (start) theta.set(start);
+  else theta.fill(0);
+  let trial = take(m);
+  let gradient = take(m);
+  let trialGradient = take(m);
+  const hessian = take(m * m);
+  const step = take(m);
+  const factor = take(m * m);
   const gradientBound = options.tolerance / n;
   let f = objective(theta, gradient);
   let iterations = 0;
@@ -383,16 +375,7 @@ function fitBinary(
     hessian.fill(0);
     for (let i = 0; i < n; i++) {
       const wi = weights[i];
-      if (wi === 0) continue;
-      const offset = i * p;
-      for (let j = 0; j < p; j++) {
-        const v = wi * x[offset + j];
-        const row = j * m;
-        for (let k = 0; k <= j; k++) hessian[row + k] += v * x[offset + k];
-      }
-      const last = p * m;
-      for (let k = 0; k < p; k++) hessian[last + k] += wi * x[offset + k];
-      hessian[last + p] += wi;
+      if (wi !== 0) addToHessian(hessian, x, i * p, p, wi);
     }
     for (let j = 0; j < m; j++) {
       for (let k = 0; k <= j; k++) {
@@ -401,7 +384,7 @@ function fitBinary(
         hessian[k * m + j] = v;
       }
     }
-    solveSymmetricPositive(hessian, m, gradient, step);
+    solveSymmetricPositive(hessian, m, gradient, step, factor);
     // Step halving along −step until Armijo's condition (or, at rounding level, the approximate Wolfe
     // conditions) holds.
     const slope = dot(gradient, step);
@@ -444,6 +427,63 @@ function fitBinary(
 }
 
 /**
+ * Adds wᵢ aᵢ aᵢᵀ, for the row aᵢ = (xᵢ, 1) starting at `offset` of `x`, to the lower triangle of the
+ * (p + 1)² `hessian`. A function of its own, called once per row: V8 optimises a small function after
+ * a few calls, where the loop nested in the fit's loops ran unoptimised, boxing every number, for the
+ * first several fits of each thread.
+ */
+function addToHessian(hessian: Float64Array, x: Float64Array, offset: number, p: number, wi: number): void {
+  const m = p + 1;
+  for (let j = 0; j < p; j++) {
+    const v = wi * x[offset + j];
+    const row = j * m;
+    for (let k = 0; k <= j; k++) hessian[row + k] += v * x[offset + k];
+  }
+  const last = p * m;
+  for (let k = 0; k < p; k++) hessian[last + k] += wi * x[offset + k];
+  hessian[last + p] += wi;
+}
+
+/**
+ * The binary fit's objective f(θ) (see {@link fitBinary}) on the rows `x`, `y`; fills `gradient` and
+ * the IRLS weights pᵢ(1 − pᵢ). A function of its own rather than a closure made by each fit, so that
+ * the optimised code of one fit serves the next (a new closure per fit sent V8 back to unoptimised
+ * code, boxing every number, which took a third of a small curve's time).
+ */
+function binaryObjective(
+  x: Float64Array,
+  y: Int32Array,
+  n: number,
+  p: number,
+  lambda: number,
+  theta: Float64Array,
+  gradient: Float64Array,
+  weights: Float64Array,
+): number {
+  const b = theta[p];
+  let loss = 0;
+  gradient.fill(0);
+  for (let i = 0; i < n; i++) {
+    const offset = i * p;
+    let s = b;
+    for (let j = 0; j < p; j++) s += theta[j] * x[offset + j];
+    loss += softplus(s) - (y[i] === 1 ? s : 0);
+    const prob = sigmoid(s);
+    const r = prob - y[i];
+    weights[i] = prob * (1 - prob);
+    if (r !== 0) {
+      for (let j = 0; j < p; j++) gradient[j] += r * x[offset + j];
+      gradient[p] += r;
+    }
+  }
+  let penalty = 0;
+  for (let j = 0; j < p; j++) penalty += theta[j] * theta[j];
+  for (let j = 0; j <= p; j++) gradient[j] /= n;
+  for (let j = 0; j < p; j++) gradient[j] += lambda * theta[j];
+  return loss / n + (lambda * penalty) / 2;
+}
+
+/**
  * SciPy's relative-reduction test (L-BFGS-B's `ftol`) on scikit-learn's objective F = n·f, where f is
  * the objective divided by C·n that the fits work with: (F_before − F_after) ≤ ε · max(|F_before|,
  * |F_after|, 1). Off when ε is 0.
@@ -458,11 +498,11 @@ function decreasedLittle(before: number, after: number, relativeDecrease: number
 /**
  * Solves A x = b for a symmetric positive definite `m × m` matrix A (row-major, exactly symmetric) by
  * Cholesky decomposition A = L Lᵀ. Should rounding make a pivot non-positive, it retries with a small
- * multiple of the identity added, growing tenfold each time (Levenberg's damping).
+ * multiple of the identity added, growing tenfold each time (Levenberg's damping). `l` (m × m values)
+ * receives the factor.
  * @throws FitError when even a damped matrix cannot be decomposed (a NaN or Infinity in A).
  */
-function solveSymmetricPositive(a: Float64Array, m: number, b: Float64Array, x: Float64Array): void {
-  const l = new Float64Array(m * m);
+function solveSymmetricPositive(a: Float64Array, m: number, b: Float64Array, x: Float64Array, l: Float64Array): void {
   let largestDiagonal = 0;
   for (let j = 0; j < m; j++) largestDiagonal = Math.max(largestDiagonal, Math.abs(a[j * m + j]));
   let damping = 0;
@@ -532,24 +572,7 @@ function fitMultinomial(
 ): LinearFit {
   const stride = p + 1;
   const size = classes * stride;
-  const lambda = 1 / (options.C * n);
-  const sums = new SoftmaxLoss(x, y, n, p, classes);
-
-  const objective = (theta: Float64Array, gradient: Float64Array): number => {
-    const loss = sums.evaluate(theta, gradient);
-    let penalty = 0;
-    for (let k = 0; k < classes; k++) {
-      const w = k * stride;
-      for (let j = 0; j < p; j++) {
-        const v = theta[w + j];
-        penalty += v * v;
-        gradient[w + j] = gradient[w + j] / n + lambda * v;
-      }
-      gradient[w + p] /= n;
-    }
-    return loss / n + (lambda * penalty) / 2;
-  };
-
+  const objective = new MultinomialObjective(new SoftmaxLoss(x, y, n, p, classes), n, p, classes, 1 / (options.C * n));
   const result = minimizeLbfgs(objective, start ?? new Float64Array(size), n, options);
   const theta = result.solution;
   const coefficients = new Float64Array(classes * p);
@@ -561,6 +584,44 @@ function fitMultinomial(
     intercepts[k] = theta[k * stride + p] - interceptMean;
   }
   return { coefficients, intercepts, iterations: result.iterations, converged: result.converged };
+}
+
+/** An objective for {@link minimizeLbfgs}: its value at θ, with its gradient written into `gradient`. */
+interface Objective {
+  evaluate(theta: Float64Array, gradient: Float64Array): number;
+}
+
+/**
+ * The multinomial fit's objective f(θ) (see {@link fitMultinomial}): the sums are `sums`', the rest
+ * here. An object of one class rather than a closure made by each fit, so that the optimiser's call
+ * of it keeps one target from fit to fit (a new closure per fit sent V8's optimised code for the
+ * optimiser back to unoptimised code, boxing every number, for much of each thread's first fits).
+ */
+class MultinomialObjective implements Objective {
+  constructor(
+    private readonly sums: SoftmaxLoss,
+    private readonly n: number,
+    private readonly p: number,
+    private readonly classes: number,
+    private readonly lambda: number,
+  ) {}
+
+  evaluate(theta: Float64Array, gradient: Float64Array): number {
+    const { n, p, classes, lambda } = this;
+    const stride = p + 1;
+    const loss = this.sums.evaluate(theta, gradient);
+    let penalty = 0;
+    for (let k = 0; k < classes; k++) {
+      const w = k * stride;
+      for (let j = 0; j < p; j++) {
+        const v = theta[w + j];
+        penalty += v * v;
+        gradient[w + j] = gradient[w + j] / n + lambda * v;
+      }
+      gradient[w + p] /= n;
+    }
+    return loss / n + (lambda * penalty) / 2;
+  }
 }
 
 /**
@@ -580,7 +641,7 @@ function fitMultinomial(
  * instead of two), and the loops keep four partial sums.
  */
 function minimizeLbfgs(
-  objective: (theta: Float64Array, gradient: Float64Array) => number,
+  objective: Objective,
   start: Float64Array,
   n: number,
   options: ResolvedLogisticOptions,
@@ -589,24 +650,30 @@ function minimizeLbfgs(
   const gradientBound = options.tolerance / n;
   const maxIterations = options.maxIterations;
   const size = start.length;
-  let x = start.slice();
-  let trial = new Float64Array(size);
-  let gradient = new Float64Array(size);
-  let trialGradient = new Float64Array(size);
-  const direction = new Float64Array(size);
+  // The vectors live in one work array of this thread (scratch.ts), each written before it is read:
+  // the solution returned is one of them, to be read before the next fit on this thread.
+  const work = scratchDoubles("logistic.lbfgs", (7 + 2 * memory) * size);
+  const vector = (index: number) => work.subarray(index * size, (index + 1) * size);
+  let x = vector(0);
+  x.set(start);
+  let trial = vector(1);
+  let gradient = vector(2);
+  let trialGradient = vector(3);
+  const direction = vector(4);
   const alpha = new Float64Array(memory);
   const rho = new Float64Array(memory);
   // sᵀy / yᵀy of each pair, the scaling of the initial inverse Hessian when the pair is the newest.
   const scaling = new Float64Array(memory);
-  const s = Array.from({ length: memory }, () => new Float64Array(size));
-  const yDiff = Array.from({ length: memory }, () => new Float64Array(size));
+  const s = Array.from({ length: memory }, (_, c) => vector(7 + c));
+  const yDiff = Array.from({ length: memory }, (_, c) => vector(7 + memory + c));
   // A new pair is written here first and swapped into the ring only if it is kept.
-  let spareS = new Float64Array(size);
-  let spareY = new Float64Array(size);
+  let spareS = vector(5);
+  let spareY = vector(6);
   const order = new Int32Array(memory); // ring slots from the newest pair to the oldest
+  const pairProducts = new Float64Array(2); // sᵀy and yᵀy of the newest pair
   let stored = 0; // pairs held
   let newest = -1; // slot of the newest pair in the ring
-  let f = objective(x, gradient);
+  let f = objective.evaluate(x, gradient);
   if (!Number.isFinite(f)) throw new FitError("logistic: the objective is not finite at the start");
   let iterations = 0;
   let converged = false;
@@ -640,13 +707,13 @@ function minimizeLbfgs(
       }
     } else {
       // First step (or after a reset): steepest descent, scaled to move by at most 1 in any entry.
-      for (let i = 0; i < size; i++) direction[i] = -gradient[i];
+      negate(gradient, direction);
       initialStep = Math.min(1, 1 / maxAbs(gradient));
     }
     let slope = dot(gradient, direction);
     if (!(slope < 0)) {
       // Not a descent direction (rounding): fall back to steepest descent and forget the pairs.
-      for (let i = 0; i < size; i++) direction[i] = -gradient[i];
+      negate(gradient, direction);
       slope = -dot(gradient, gradient);
       initialStep = Math.min(1, 1 / maxAbs(gradient));
       stored = 0;
@@ -657,8 +724,8 @@ function minimizeLbfgs(
     let accepted = false;
     let fTrial = f;
     for (let attempt = 0; attempt < 40; attempt++) {
-      for (let i = 0; i < size; i++) trial[i] = x[i] + t * direction[i];
-      fTrial = objective(trial, trialGradient);
+      stepAlong(x, t, direction, trial);
+      fTrial = objective.evaluate(trial, trialGradient);
       if (fTrial <= f + 1e-4 * t * slope || approximateWolfe(f, fTrial, slope, dot(trialGradient, direction))) {
         accepted = true;
         break;
@@ -681,16 +748,9 @@ function minimizeLbfgs(
     justReset = false;
 
     // The correction pair s = Δx, y = Δg, kept when its curvature sᵀy is positive.
-    let sy = 0;
-    let yy = 0;
-    for (let i = 0; i < size; i++) {
-      const ds = trial[i] - x[i];
-      const dy = trialGradient[i] - gradient[i];
-      spareS[i] = ds;
-      spareY[i] = dy;
-      sy += ds * dy;
-      yy += dy * dy;
-    }
+    correctionPair(x, trial, gradient, trialGradient, spareS, spareY, pairProducts);
+    const sy = pairProducts[0];
+    const yy = pairProducts[1];
     if (sy > 1e-12 * yy && sy > 0) {
       const slot = (newest + 1) % memory;
       const oldS = s[slot];
@@ -718,6 +778,47 @@ function minimizeLbfgs(
     }
   }
   return { solution: x, iterations, converged };
+}
+
+// The loops over the parameters live in small functions of their own: V8 optimises a small function
+// after a few calls, while a loop inside the optimiser's long one waited for a slow compilation of
+// the whole, running unoptimised (boxing every number) for much of each thread's first fits.
+
+/** Sets `out` = −g. */
+function negate(g: Float64Array, out: Float64Array): void {
+  for (let i = 0; i < g.length; i++) out[i] = -g[i];
+}
+
+/** Sets `out` = x + t · direction. */
+function stepAlong(x: Float64Array, t: number, direction: Float64Array, out: Float64Array): void {
+  for (let i = 0; i < x.length; i++) out[i] = x[i] + t * direction[i];
+}
+
+/**
+ * The correction pair of a step from x to `trial`: s = trial − x into `s`, y = trialGradient −
+ * gradient into `y`, and [sᵀy, yᵀy] into `products`.
+ */
+function correctionPair(
+  x: Float64Array,
+  trial: Float64Array,
+  gradient: Float64Array,
+  trialGradient: Float64Array,
+  s: Float64Array,
+  y: Float64Array,
+  products: Float64Array,
+): void {
+  let sy = 0;
+  let yy = 0;
+  for (let i = 0; i < x.length; i++) {
+    const ds = trial[i] - x[i];
+    const dy = trialGradient[i] - gradient[i];
+    s[i] = ds;
+    y[i] = dy;
+    sy += ds * dy;
+    yy += dy * dy;
+  }
+  products[0] = sy;
+  products[1] = yy;
 }
 
 /** Sets `out` = −g and returns a·out, in one pass. */

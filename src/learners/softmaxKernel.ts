@@ -76,6 +76,14 @@ function getInstance(): Instance {
 }
 
 /**
+ * Lets this thread's WebAssembly memory (which holds the largest fit's rows since) be collected; the
+ * next fit compiles the module again and starts a new memory.
+ */
+export function releaseSoftmaxMemory(): void {
+  instance = undefined;
+}
+
+/**
  * The summed softmax log-loss and its gradient sums on fixed rows, evaluated at any coefficients.
  * Instances share one WebAssembly memory per thread: the first evaluation after another instance's
  * copies this instance's rows in again, so interleaving two instances is correct but slow.

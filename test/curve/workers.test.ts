@@ -4,7 +4,8 @@
  * with the real logistic learner on iris (fixtures/open-data/iris.csv, UCI via scikit-learn); with two
  * workers the pool runs src/curve/fitWorkerFromSource.mjs, which loads the TypeScript source.
  */
-import { describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { poolSettings } from "../../src/curve/fitPool.js";
 import { measureCurve, type MeasureOptions } from "../../src/curve/measure.js";
 import type { Dataset } from "../../src/data/dataset.js";
 import { toJson } from "../../src/io/files.js";
@@ -22,6 +23,11 @@ function iris(withRuns: boolean): Dataset {
 }
 
 describe("worker threads", () => {
+  // Worker threads start after the main thread's first task, however small the job.
+  const worth = poolSettings.workerWorthMilliseconds;
+  beforeAll(() => void (poolSettings.workerWorthMilliseconds = 0));
+  afterAll(() => void (poolSettings.workerWorthMilliseconds = worth));
+
   it.each<[string, boolean, MeasureOptions]>([
     ["stratified 3-fold", false, { folds: 3, repeats: 2 }],
     ["runs kept whole, sizes in runs, tuned", true, { folds: 3, repeats: 2, byRuns: true, tune: true }],
@@ -39,5 +45,11 @@ describe("worker threads", () => {
     const scores = curve.points.flatMap((p: { scores: number[] }) => p.scores);
     expect(new Set(scores).size).toBeGreaterThan(1);
     for (const score of scores) expect(score > 0 && score <= 1).toBe(true);
+  });
+
+  it("give the same curve.json bytes with 3 threads", async () => {
+    const options: MeasureOptions = { folds: 5, repeats: 3, seed: 3, learner: "logistic" };
+    const run = async (workers: number) => toJson(await measureCurve(iris(false), "iris.csv", { ...options, workers }));
+    expect(await run(3)).toBe(await run(1));
   });
 });

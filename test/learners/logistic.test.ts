@@ -276,6 +276,40 @@ describe("LogisticRegression", () => {
     for (let i = 0; i < d.rows; i++) expect(probabilities[i * 3 + d.labels[i]]).toBeGreaterThan(0.5);
   });
 
+  it("fits and predicts the same bits after other fits on the thread (whose work arrays it reuses)", () => {
+    const iris = data.get("iris")!;
+    const rows = [...Array(iris.rows).keys()].filter((r) => r % 3 !== 0);
+    const first = new LogisticRegression().fit(trainingSet(iris, rows), random);
+    const before = first.predictProbabilities(iris.features, iris.rows);
+    // Fits of other shapes in between: larger (digits, 10 classes), binary (breast cancer), smaller.
+    for (const name of ["digits", "breast_cancer", "wine"]) {
+      const other = data.get(name)!;
+      new LogisticRegression().fit(trainingSet(other), random).predictProbabilities(other.features, other.rows);
+    }
+    const again = new LogisticRegression().fit(trainingSet(iris, rows), random);
+    expect(Array.from(again.coefficients)).toEqual(Array.from(first.coefficients));
+    expect(Array.from(again.intercepts)).toEqual(Array.from(first.intercepts));
+    expect(again.iterations).toBe(first.iterations);
+    expect(Array.from(first.predictProbabilities(iris.features, iris.rows))).toEqual(Array.from(before));
+  });
+
+  it("writes the probabilities into the start of a given array, zero for absent classes", () => {
+    const d = data.get("digits")!;
+    const rows = [...Array(d.rows).keys()].filter((r) => [2, 5, 9].includes(d.labels[r])).slice(0, 90);
+    const model = new LogisticRegression().fit(trainingSet(d, rows), random);
+    const first40 = d.features.subarray(0, 40 * d.columns);
+    const expected = model.predictProbabilities(first40, 40);
+    const target = new Float64Array(40 * 10 + 7).fill(0.5);
+    const written = model.predictProbabilities(first40, 40, target);
+    expect(written.buffer).toBe(target.buffer);
+    expect(written.byteOffset).toBe(0);
+    expect(Array.from(written)).toEqual(Array.from(expected));
+    expect(target[40 * 10]).toBe(0.5); // past the rows: untouched
+    // Too short a target is not written: a new array comes back.
+    const short = new Float64Array(10);
+    expect(model.predictProbabilities(first40, 40, short).buffer).not.toBe(short.buffer);
+  });
+
   it("is deterministic", () => {
     const d = data.get("wine")!;
     const a = new LogisticRegression().fit(trainingSet(d), new RandomStream(1));

@@ -1,6 +1,6 @@
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
-import { fitPreprocessor } from "../../src/learners/preprocess.js";
+import { fitPreprocessor, medianInPlace } from "../../src/learners/preprocess.js";
 import { DataError } from "../../src/errors.js";
 
 /** Row-major matrix from rows. */
@@ -147,5 +147,56 @@ describe("fitPreprocessor", () => {
       ),
       { numRuns: 200, seed: 20261201 },
     );
+  });
+});
+
+describe("medianInPlace", () => {
+  // numpy.median (from memory): [3, 1, 2] → 2.0; [4, 1, 3, 2] → 2.5; [5, 5, 1, 5] → 5.0.
+  it.each([
+    [[3, 1, 2], 2],
+    [[4, 1, 3, 2], 2.5],
+    [[5, 5, 1, 5], 5],
+    [[7], 7],
+  ])("gives numpy's median of %j", (values, expected) => {
+    expect(medianInPlace(Float64Array.from(values), values.length)).toBe(expected);
+  });
+
+  it("equals the median of the sorted values bit for bit, the sign of a zero included", () => {
+    // Many ties and zeros of both signs, as in image data (digits) and columns written "-0.00000".
+    const value = fc.oneof(
+      fc.constantFrom(-0, 0, 1, -1, 2.5, 5e-324, -5e-324),
+      fc.double({ noNaN: true, min: -1e6, max: 1e6 }),
+    );
+    fc.assert(
+      fc.property(fc.array(value, { minLength: 1, maxLength: 60 }), (values) => {
+        const sorted = Float64Array.from(values).sort();
+        const half = values.length >> 1;
+        const expected = values.length % 2 === 1 ? sorted[half] : (sorted[half - 1] + sorted[half]) / 2;
+        const median = medianInPlace(Float64Array.from(values), values.length);
+        expect(Object.is(median, expected)).toBe(true);
+      }),
+      { numRuns: 2000, seed: 20261202 },
+    );
+  });
+
+  it("reads only the first `count` values", () => {
+    expect(medianInPlace(Float64Array.of(9, 1, 5, -100, -100), 3)).toBe(5);
+  });
+});
+
+describe("Preprocessor.transform into a given array", () => {
+  it("writes the same values into the start of the array and returns that view", () => {
+    const features = matrix([
+      [1, NaN],
+      [4, 2],
+      [6, 8],
+    ]);
+    const pre = fitPreprocessor(features, 3, 2);
+    const target = new Float64Array(9).fill(-7);
+    const written = pre.transform(features, 3, target);
+    expect(written.buffer).toBe(target.buffer);
+    expect(Array.from(written)).toEqual(Array.from(pre.transform(features, 3)));
+    expect(target[6]).toBe(-7);
+    expect(() => pre.transform(features, 3, new Float64Array(5))).toThrow(RangeError);
   });
 });

@@ -26,7 +26,7 @@ export function measureCommand(io: CliIo): Command {
     .option("--repeats <r>", "repeats of the k-fold with fresh folds (default 10)")
     .option("--sizes <list>", "training sizes, e.g. 20,40,80 (default: 8 geometric sizes up to the whole pool)")
     .option("--seed <s>", "random seed (default 0)")
-    .option("--workers <w>", "worker threads (default: the number of cores)")
+    .option("--workers <w>", "most threads to fit on, started when worth it (default: the number of cores)")
     .option("--quiet", "draw no progress bar")
     .option("--resume", "continue an interrupted run from its checkpoint (<out>.checkpoint.jsonl)")
     .requiredOption("--out <file>", "where to write curve.json")

@@ -8,7 +8,7 @@ import { optionalInteger } from "../parseOptions.js";
 /** Options shared by `study` and `demo`. */
 export function addRunOptions(command: Command): Command {
   return command
-    .option("--workers <w>", "worker threads (default: the number of cores)")
+    .option("--workers <w>", "most threads to fit on, started when worth it (default: the number of cores)")
     .option("--resume", "continue an interrupted run from its checkpoint (<out>/curve.json.checkpoint.jsonl)")
     .option("--quiet", "draw no progress bar and print nothing on success");
 }

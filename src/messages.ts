@@ -69,6 +69,13 @@ export const message = {
     `--metric ${metric} is undefined on every test fold (${reason}); choose another metric or more folds per class`,
   metricUndefinedSome: (metric: string, skipped: number, total: number, reason: string) =>
     `--metric ${metric} is undefined on ${skipped} of ${total} test folds (first: ${reason}); their fits are left out, and each point's repeatOfScore says which repeat each score is from`,
+  emptyColumns: (names: string[]) =>
+    `${names.length === 1 ? "column" : "columns"} ${names
+      .slice(0, 5)
+      .map((n) => `'${clip(n)}'`)
+      .join(
+        ", ",
+      )}${names.length > 5 ? ` and ${names.length - 5} more` : ""} ${names.length === 1 ? "has" : "have"} no value in any row and add${names.length === 1 ? "s" : ""} nothing to the model; check the file, or --ignore ${names.length === 1 ? "it" : "them"}`,
   tuneWithoutGrid: (learner: string) =>
     `--tune: learner '${learner}' has no tuning grid yet, so it was measured with its default settings`,
   badInteger: (option: string, text: string, min: number) =>

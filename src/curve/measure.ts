@@ -187,6 +187,8 @@ export async function measureCurve(
     byRuns: o.byRuns,
   });
   warnings.push(...design.warnings);
+  const empty = emptyColumns(data);
+  if (empty.length > 0) warnings.push(message.emptyColumns(empty));
   const classCounts = new Array<number>(classCount).fill(0);
   for (const label of data.labels) classCounts[label]++;
   if (design.splitter === "stratified-k-fold") {
@@ -350,4 +352,14 @@ function neededFor(smallest: number, design: SplitDesign): number {
   for (let n = smallest + 3; ; n++) {
     if (n - (leaveOne ? 1 : Math.ceil(n / design.folds)) >= smallest + 2) return n;
   }
+}
+
+/** Names of the feature columns with no value in any row (every cell missing). */
+function emptyColumns(data: Dataset): string[] {
+  const columns = data.featureNames.length;
+  const seen = new Uint8Array(columns);
+  for (let i = 0; i < data.rows; i++) {
+    for (let j = 0; j < columns; j++) if (!Number.isNaN(data.features[i * columns + j])) seen[j] = 1;
+  }
+  return data.featureNames.filter((_, j) => seen[j] === 0);
 }

@@ -47,6 +47,25 @@ function dataset(): Dataset {
 }
 
 describe("measureCurve", () => {
+  it("warns of a feature column with no value in any row, and only of such columns", async () => {
+    const base = dataset();
+    // Add a third column, missing in every row, and a fourth, missing in all rows but one.
+    const features = new Float64Array(base.rows * 4);
+    for (let i = 0; i < base.rows; i++) {
+      features[i * 4] = base.features[i * 2];
+      features[i * 4 + 1] = base.features[i * 2 + 1];
+      features[i * 4 + 2] = NaN;
+      features[i * 4 + 3] = i === 7 ? 1 : NaN;
+    }
+    const data = { ...base, features, featureNames: ["truth", "id", "blank", "once"] };
+    const curve = await measureCurve(data, "fake.csv", { repeats: 1, trainingSizes: [20, 40], learner: "fake" });
+    expect(curve.warnings).toEqual([
+      "column 'blank' has no value in any row and adds nothing to the model; check the file, or --ignore it",
+    ]);
+    const clean = await measureCurve(dataset(), "fake.csv", { repeats: 1, trainingSizes: [20, 40], learner: "fake" });
+    expect(clean.warnings).toBeUndefined();
+  });
+
   it("records exactly the score the fake learner's known curve gives at each size", async () => {
     trainedOn.length = 0;
     const sizes = [10, 20, 40, 80];

@@ -101,42 +101,30 @@ describe("an interrupted measurement resumes to the same bytes", () => {
     expect(existsSync(checkpoint)).toBe(false);
   });
 
-  it("after Ctrl-C (SIGINT): exit code 130 and one line saying how to resume", async () => {
-    const out = join(dir, "interrupted.json");
-    const checkpoint = `${out}.checkpoint.jsonl`;
-    const { child, exit } = startCli(["measure", digits, ...design, "--workers", "1", "--out", out]);
-    await waitForFits(checkpoint, 2, exit);
-    child.kill("SIGINT");
-    const { code, stderr } = await exit;
-    expect(code).toBe(ExitCode.interrupted);
-    const kept = fitsIn(checkpoint);
-    expect(stderr).toBe(
-      `headroom: interrupted after ${kept} of 10 fits (kept in ${checkpoint}); rerun the same command with --resume to continue\n`,
-    );
-    expect(existsSync(out)).toBe(false);
+  it.each([
+    { signal: "SIGINT" as const, exitCode: ExitCode.interrupted, resumeWorkers: "2" },
+    { signal: "SIGTERM" as const, exitCode: ExitCode.terminated, resumeWorkers: "1" },
+  ])(
+    "after $signal (Ctrl-C; SIGTERM, a scheduler's stop): exit code $exitCode and one line saying how to resume",
+    async ({ signal, exitCode, resumeWorkers }) => {
+      const out = join(dir, `interrupted-${signal}.json`);
+      const checkpoint = `${out}.checkpoint.jsonl`;
+      const { child, exit } = startCli(["measure", digits, ...design, "--workers", "1", "--out", out]);
+      await waitForFits(checkpoint, 2, exit);
+      child.kill(signal);
+      const { code, stderr } = await exit;
+      expect(code).toBe(exitCode);
+      const kept = fitsIn(checkpoint);
+      expect(stderr).toBe(
+        `headroom: interrupted after ${kept} of 10 fits (kept in ${checkpoint}); rerun the same command with --resume to continue\n`,
+      );
+      expect(existsSync(out)).toBe(false);
 
-    await runInProcess(["measure", digits, ...design, "--workers", "2", "--resume", "--out", out]);
-    expect(readFileSync(out).equals(await uninterrupted())).toBe(true);
-    expect(existsSync(checkpoint)).toBe(false);
-  });
-
-  it("after SIGTERM: the same orderly stop, exit code 143", async () => {
-    const out = join(dir, "terminated.json");
-    const checkpoint = `${out}.checkpoint.jsonl`;
-    const { child, exit } = startCli(["measure", digits, ...design, "--workers", "1", "--out", out]);
-    await waitForFits(checkpoint, 2, exit);
-    child.kill("SIGTERM");
-    const { code, stderr } = await exit;
-    expect(code).toBe(ExitCode.terminated);
-    const kept = fitsIn(checkpoint);
-    expect(stderr).toBe(
-      `headroom: interrupted after ${kept} of 10 fits (kept in ${checkpoint}); rerun the same command with --resume to continue\n`,
-    );
-    expect(existsSync(out)).toBe(false);
-
-    await runInProcess(["measure", digits, ...design, "--workers", "1", "--resume", "--out", out]);
-    expect(readFileSync(out).equals(await uninterrupted())).toBe(true);
-  });
+      await runInProcess(["measure", digits, ...design, "--workers", resumeWorkers, "--resume", "--out", out]);
+      expect(readFileSync(out).equals(await uninterrupted())).toBe(true);
+      expect(existsSync(checkpoint)).toBe(false);
+    },
+  );
 });
 
 describe("determinism", () => {

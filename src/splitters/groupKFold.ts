@@ -11,6 +11,8 @@
  * counts within one largest group of each other.
  */
 import type { RandomStream } from "../random.js";
+import { rowsByValue } from "./rowsByValue.js";
+import { shuffleRows } from "./shuffleRows.js";
 import { splitsFromFoldOf, type Split } from "./split.js";
 
 /**
@@ -20,23 +22,30 @@ import { splitsFromFoldOf, type Split } from "./split.js";
  * @throws RangeError when there are fewer groups than folds (the caller checks this first)
  */
 export function groupKFold(groups: Int32Array, folds: number, random: RandomStream): Split[] {
-  const rowsOf = new Map<number, number>();
-  for (const group of groups) rowsOf.set(group, (rowsOf.get(group) ?? 0) + 1);
-  if (rowsOf.size < folds) throw new RangeError(`groupKFold: ${rowsOf.size} groups cannot fill ${folds} folds`);
-  const order = random.shuffle([...rowsOf.keys()].sort((a, b) => a - b));
-  // Array.prototype.sort is stable: equal sizes keep their shuffled order.
-  order.sort((a, b) => (rowsOf.get(b) as number) - (rowsOf.get(a) as number));
-  const foldRank = random.shuffle(Array.from({ length: folds }, (_, f) => f));
-  const load = new Array<number>(folds).fill(0);
-  const foldOfGroup = new Map<number, number>();
+  // Groups are numbered by their position among the distinct group indices, in increasing order.
+  const { starts, valueIndex } = rowsByValue(groups);
+  const groupCount = starts.length - 1;
+  if (groupCount < folds) throw new RangeError(`groupKFold: ${groupCount} groups cannot fill ${folds} folds`);
+  const rowsOf = (group: number) => starts[group + 1] - starts[group];
+  const order = Int32Array.from({ length: groupCount }, (_, g) => g);
+  shuffleRows(order, random);
+  // Largest first; equal sizes keep their shuffled order (the tie-break on the shuffled position does
+  // not rely on the sort being stable).
+  const shuffledAt = new Int32Array(groupCount);
+  order.forEach((group, position) => (shuffledAt[group] = position));
+  order.sort((a, b) => rowsOf(b) - rowsOf(a) || shuffledAt[a] - shuffledAt[b]);
+  const foldRank = Int32Array.from({ length: folds }, (_, f) => f);
+  shuffleRows(foldRank, random);
+  const load = new Float64Array(folds);
+  const foldOfGroup = new Int32Array(groupCount);
   for (const group of order) {
     let best = foldRank[0];
     for (const f of foldRank) if (load[f] < load[best]) best = f;
-    foldOfGroup.set(group, best);
-    load[best] += rowsOf.get(group) as number;
+    foldOfGroup[group] = best;
+    load[best] += rowsOf(group);
   }
   return splitsFromFoldOf(
-    Int32Array.from(groups, (group) => foldOfGroup.get(group) as number),
+    valueIndex.map((group) => foldOfGroup[group]),
     folds,
   );
 }

@@ -5,6 +5,7 @@
  * membership differs).
  */
 import type { RandomStream } from "../random.js";
+import { shuffleRows } from "./shuffleRows.js";
 import { splitsFromFoldOf, type Split } from "./split.js";
 
 /**
@@ -13,8 +14,9 @@ import { splitsFromFoldOf, type Split } from "./split.js";
  * @param random the stream that decides this repeat's folds
  */
 export function kFold(rows: number, folds: number, random: RandomStream): Split[] {
-  const order = random.shuffle(Array.from({ length: rows }, (_, i) => i));
+  const order = Int32Array.from({ length: rows }, (_, i) => i);
+  shuffleRows(order, random);
   const foldOf = new Int32Array(rows);
-  order.forEach((row, position) => (foldOf[row] = position % folds));
+  for (let position = 0; position < rows; position++) foldOf[order[position]] = position % folds;
   return splitsFromFoldOf(foldOf, folds);
 }

@@ -3,6 +3,7 @@
  * training on all the others, as scikit-learn's `LeaveOneGroupOut`. With few runs it is the only
  * grouped design that uses all but one of them for training; it needs no randomness.
  */
+import { rowsByValue } from "./rowsByValue.js";
 import { splitsFromFoldOf, type Split } from "./split.js";
 
 /**
@@ -10,10 +11,7 @@ import { splitsFromFoldOf, type Split } from "./split.js";
  * @param groups group index of each row
  */
 export function leaveOneGroupOut(groups: Int32Array): Split[] {
-  const present = [...new Set(groups)].sort((a, b) => a - b);
-  const foldOfGroup = new Map(present.map((group, f) => [group, f]));
-  return splitsFromFoldOf(
-    Int32Array.from(groups, (group) => foldOfGroup.get(group) as number),
-    present.length,
-  );
+  // Fold f holds out the f-th distinct group index in increasing order.
+  const { values, valueIndex } = rowsByValue(groups);
+  return splitsFromFoldOf(valueIndex, values.length);
 }

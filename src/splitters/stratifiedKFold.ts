@@ -7,6 +7,8 @@
  * are the same: disjoint test folds covering every row once, class proportions kept.
  */
 import type { RandomStream } from "../random.js";
+import { rowsByValue } from "./rowsByValue.js";
+import { shuffleRows } from "./shuffleRows.js";
 import { splitsFromFoldOf, type Split } from "./split.js";
 
 /**
@@ -15,18 +17,14 @@ import { splitsFromFoldOf, type Split } from "./split.js";
  * @param random the stream that decides this repeat's folds
  */
 export function stratifiedKFold(labels: Int32Array, folds: number, random: RandomStream): Split[] {
-  const rows = labels.length;
-  const byClass = new Map<number, number[]>();
-  for (let i = 0; i < rows; i++) {
-    const list = byClass.get(labels[i]);
-    if (list) list.push(i);
-    else byClass.set(labels[i], [i]);
-  }
-  const foldOf = new Int32Array(rows);
+  // Classes in increasing order, each class's rows in row order before its shuffle.
+  const { starts, rows } = rowsByValue(labels);
+  const foldOf = new Int32Array(labels.length);
   let next = random.integer(folds);
-  for (const cls of [...byClass.keys()].sort((a, b) => a - b)) {
-    for (const row of random.shuffle(byClass.get(cls) as number[])) {
-      foldOf[row] = next;
+  for (let k = 0; k + 1 < starts.length; k++) {
+    shuffleRows(rows, random, starts[k], starts[k + 1]);
+    for (let i = starts[k]; i < starts[k + 1]; i++) {
+      foldOf[rows[i]] = next;
       next = (next + 1) % folds;
     }
   }

@@ -50,6 +50,16 @@ describe("headroom forecast options", () => {
     expect(c.stderr()).toMatch(/^warning: The curve does not say how large its test folds were/m);
   });
 
+  it("--quiet prints nothing, and forecast.json still holds the warnings", async () => {
+    const out = join(dir, "quiet.json");
+    const c = capture();
+    expect(await run(["forecast", curveFile, "--at", "1600", "--quiet", "--out", out], c.io)).toBe(ExitCode.ok);
+    expect(c.stdout()).toBe("");
+    expect(c.stderr()).toBe("");
+    const forecast = JSON.parse(readFileSync(out, "utf8"));
+    expect(forecast.warnings.join("\n")).toMatch(/The curve does not say how large its test folds were/);
+  });
+
   it.each([
     [
       ["--family", "pow9"],

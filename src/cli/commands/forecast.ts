@@ -25,6 +25,7 @@ export function forecastCommand(io: CliIo): Command {
     .option("--test-size <rows>", "test rows behind the single-model interval (default: the data set's rows)")
     .option("--json", "print forecast.json to standard output")
     .option("--out <file>", "where to write forecast.json")
+    .option("--quiet", "print no summary and no warnings (they stay in forecast.json)")
     .action(async (curveFile: string, options: Record<string, string | boolean | undefined>) => {
       // Imported when the command runs, so that the other commands do not load them.
       const [{ readCurve }, { forecastCurve }] = await Promise.all([
@@ -44,8 +45,8 @@ export function forecastCommand(io: CliIo): Command {
       const json = toJson(forecast);
       if (typeof options.out === "string") writeFileAtomic(options.out, json, [curveFile]);
       if (options.json) io.stdout(json);
-      else io.stdout(forecastSummary(forecast));
-      for (const warning of forecast.warnings) io.stderr(`warning: ${warning}\n`);
+      else if (!options.quiet) io.stdout(forecastSummary(forecast));
+      if (!options.quiet) for (const warning of forecast.warnings) io.stderr(`warning: ${warning}\n`);
     });
 }
 

@@ -11,6 +11,7 @@ export function weighCommand(io: CliIo): Command {
     .option("--domain <field>", "what the model's decisions touch (e.g. clinical), when the plan does not say")
     .option("--json", "print decision.json to standard output")
     .option("--out <file>", "where to write decision.json")
+    .option("--quiet", "print no summary (decision.json holds it)")
     .action(async (forecastFile: string, options: Record<string, string | boolean | undefined>) => {
       // Imported when the command runs, so that the other commands do not load them.
       const [{ readForecast }, { readPlan }, { weighRuns }] = await Promise.all([
@@ -26,7 +27,7 @@ export function weighCommand(io: CliIo): Command {
       const json = toJson(decision);
       if (typeof options.out === "string") writeFileAtomic(options.out, json, [forecastFile, options.plan as string]);
       if (options.json) io.stdout(json);
-      else io.stdout(decisionText(decision));
+      else if (!options.quiet) io.stdout(decisionText(decision));
     });
 }
 

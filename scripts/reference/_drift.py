@@ -2,7 +2,9 @@
 JSON. A helper module, not a reference script (the leading underscore keeps the drift test from
 running it on its own)."""
 import json
+import math
 import os
+import sys
 
 
 def compare(fresh, committed, tolerance, path="", problems=None, exact_integers=False):
@@ -49,6 +51,28 @@ def numbers(value):
     elif isinstance(value, dict):
         for key in sorted(value):
             yield from numbers(value[key])
+
+
+def largest_difference(pairs, relative):
+    """The largest difference between the numbers of each (fresh, committed) pair of JSON values:
+    |fresh − committed|, divided by max(1, |committed|) when `relative`; infinite when a pair holds
+    different counts of numbers."""
+    worst = 0.0
+    for fresh, committed in pairs:
+        new, old = list(numbers(fresh)), list(numbers(committed))
+        if len(new) != len(old):
+            return math.inf
+        for a, b in zip(new, old):
+            difference = abs(a - b) / (max(1.0, abs(b)) if relative else 1.0)
+            worst = max(worst, difference)
+    return worst
+
+
+def exit_with_check(name, worst, tolerance):
+    """Prints `name: largest difference …` and exits 0 when `worst` is within `tolerance`, else 1."""
+    ok = worst <= tolerance
+    print(f"{name}: largest difference {worst:.2e} ({'ok' if ok else 'DIFFERS'})")
+    sys.exit(0 if ok else 1)
 
 
 def read_json(path):

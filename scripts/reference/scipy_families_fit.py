@@ -34,7 +34,7 @@ import numpy as np
 import scipy
 from scipy.optimize import curve_fit
 
-from _drift import numbers, read_json, write_json
+from _drift import exit_with_check, largest_difference, read_json, write_json
 
 
 HERE = os.path.dirname(os.path.abspath(__file__))
@@ -128,20 +128,13 @@ def main():
     args = parser.parse_args()
     result = compute()
     if args.check:
-        committed = read_json(OUT)
-        worst = 0.0
-        for name, fresh in result["families"].items():
-            old = committed["families"][name]
-            for key in ["parameters", "standardErrors", "residualSumOfSquares"]:
-                new_values = list(numbers(fresh[key]))
-                old_values = list(numbers(old[key]))
-                if len(new_values) != len(old_values):
-                    worst = float("inf")
-                for new, prior in zip(new_values, old_values):
-                    worst = max(worst, abs(new - prior) / max(1.0, abs(prior)))
-        ok = worst <= 1e-6
-        print(f"scipy-families-fit: largest difference {worst:.2e} ({'ok' if ok else 'DIFFERS'})")
-        sys.exit(0 if ok else 1)
+        committed = read_json(OUT)["families"]
+        pairs = [
+            (fresh[key], committed[name][key])
+            for name, fresh in result["families"].items()
+            for key in ["parameters", "standardErrors", "residualSumOfSquares"]
+        ]
+        exit_with_check("scipy-families-fit", largest_difference(pairs, relative=True), 1e-6)
     write_json(OUT, result)
     print(f"wrote {os.path.relpath(OUT)}: " + ", ".join(f"{k} {v['parameters']}" for k, v in result["families"].items()))
 

@@ -32,7 +32,7 @@ import numpy as np
 import scipy
 from scipy.stats import beta, norm
 
-from _drift import numbers, read_json, write_json
+from _drift import exit_with_check, largest_difference, read_json, write_json
 
 
 HERE = os.path.dirname(os.path.abspath(__file__))
@@ -145,18 +145,9 @@ def main():
     result = compute()
     if args.check:
         committed = read_json(OUT)
-        worst = 0.0
-        for key in ["clopperPearson", "clopperPearsonLower", "wilson", "heldOutNeeded"]:
-            fresh = list(numbers(result[key]))
-            old = list(numbers(committed[key]))
-            if len(fresh) != len(old):
-                print(f"scipy-intervals: {key} has {len(fresh)} numbers, the committed file {len(old)} (DIFFERS)")
-                sys.exit(1)
-            for new, before in zip(fresh, old):
-                worst = max(worst, abs(new - before))
-        ok = worst <= 1e-12
-        print(f"scipy-intervals: largest difference {worst:.2e} ({'ok' if ok else 'DIFFERS'})")
-        sys.exit(0 if ok else 1)
+        keys = ["clopperPearson", "clopperPearsonLower", "wilson", "heldOutNeeded"]
+        pairs = [(result[key], committed[key]) for key in keys]
+        exit_with_check("scipy-intervals", largest_difference(pairs, relative=False), 1e-12)
     write_json(OUT, result)
     print(f"wrote {os.path.relpath(OUT)}: {len(EXACT_CASES)} exact intervals, {len(WILSON_CASES)} Wilson intervals")
 

@@ -27,7 +27,7 @@ import numpy as np
 import scipy
 from scipy.optimize import curve_fit
 
-from _drift import numbers, read_json, write_json
+from _drift import exit_with_check, largest_difference, read_json, write_json
 
 
 HERE = os.path.dirname(os.path.abspath(__file__))
@@ -89,13 +89,8 @@ def main():
     if args.check:
         committed = read_json(OUT)
         keys = ["parameters", "covariance", "standardErrors", "residualSumOfSquares"]
-        worst = 0.0
-        for key in keys:
-            for new, old in zip(numbers(result[key]), numbers(committed[key])):
-                worst = max(worst, abs(new - old) / max(1.0, abs(old)))
-        ok = worst <= 1e-6
-        print(f"scipy-pow3-fit: largest difference {worst:.2e} ({'ok' if ok else 'DIFFERS'})")
-        sys.exit(0 if ok else 1)
+        pairs = [(result[key], committed[key]) for key in keys]
+        exit_with_check("scipy-pow3-fit", largest_difference(pairs, relative=True), 1e-6)
     write_json(OUT, result)
     print(f"wrote {os.path.relpath(OUT)}: parameters {result['parameters']}")
 

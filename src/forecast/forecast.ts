@@ -112,15 +112,7 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
   }
   at = [...new Set(at)].sort((p, q) => p - q);
 
-  let family: CurveFamily | undefined;
-  if (options.family !== undefined) {
-    try {
-      family = findCurveFamily(options.family);
-    } catch {
-      const known = curveFamilies.map((f) => f.name);
-      throw new UsageError(message.unknownName("--family", options.family, known));
-    }
-  }
+  const family = options.family === undefined ? undefined : familyOption(options.family);
   const target = options.target;
   if (target !== undefined) {
     if (!Number.isFinite(target)) throw new UsageError(`forecast: target must be a finite number, not ${target}`);
@@ -140,6 +132,21 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
     throw new UsageError(`forecast: test size must be a whole number of at least 1, not ${testSize}`);
   }
   return { at, level, seed, draws, family, target, confidence, testSize };
+}
+
+/** The curve family named by `--family`; throws UsageError naming the known ones. */
+export function familyOption(name: string): CurveFamily {
+  try {
+    return findCurveFamily(name);
+  } catch {
+    throw new UsageError(
+      message.unknownName(
+        "--family",
+        name,
+        curveFamilies.map((f) => f.name),
+      ),
+    );
+  }
 }
 
 /**

@@ -8,10 +8,7 @@
 import { dirname, join, resolve } from "node:path";
 import type { CurveFile } from "../curve/curveFile.js";
 import type { ForecastFile } from "../forecast/forecastFile.js";
-import { forecastCurve } from "../forecast/forecast.js";
-import { curveFamilies } from "../fit/families.js";
-import { UsageError } from "../errors.js";
-import { message } from "../messages.js";
+import { familyOption, forecastCurve } from "../forecast/forecast.js";
 import { checkpointFileFor, removeCheckpoint } from "../curve/checkpoint.js";
 import { checkOutputPath, readJsonFile, toJson, writeFileAtomic } from "../io/files.js";
 import { validate } from "../io/validate.js";
@@ -56,10 +53,12 @@ export async function runStudy(studyFile: string, options: StudyRunOptions): Pro
   checkOutputPath(join(options.outDir, "curve.json"), [studyFile, dataFile]);
   const checkpoint = checkpointFileFor(join(options.outDir, "curve.json"));
   // Fail before measuring on an unknown curve family (the forecast checks its other options).
-  const family = study.forecast.family;
-  if (family !== undefined && !curveFamilies.some((f) => f.name === family)) {
-    const known = curveFamilies.map((f) => f.name);
-    throw inStudyTerms(new UsageError(message.unknownName("--family", family, known)), studyFile, "forecast");
+  if (study.forecast.family !== undefined) {
+    try {
+      familyOption(study.forecast.family);
+    } catch (error) {
+      throw inStudyTerms(error, studyFile, "forecast");
+    }
   }
 
   const curve = await measureFile(dataFile, {

@@ -1,5 +1,5 @@
 // Lint rules: eslint's and typescript-eslint's recommended sets, plus the project's own rule that
-// library code draws randomness only from a seeded RandomStream.
+// library code draws randomness only from a seeded RandomStream made for a registered purpose.
 import js from "@eslint/js";
 import tseslint from "typescript-eslint";
 
@@ -22,6 +22,14 @@ export default tseslint.config(
         { object: "Math", property: "random", message: "Use a seeded RandomStream (src/random.ts)." },
       ],
       "no-console": "error",
+      "no-restricted-syntax": [
+        "error",
+        {
+          selector: "NewExpression[callee.name='RandomStream']",
+          message: "Make streams with streamFor(seed, StreamPurpose.x, ...) so that each path starts with its purpose.",
+        },
+      ],
     },
   },
+  { files: ["src/random.ts"], rules: { "no-restricted-syntax": "off" } },
 );

@@ -116,4 +116,4 @@ export { studySchema, type Study } from "./study/studyFile.js";
 
 // Errors and randomness
 export { HeadroomError, UsageError, DataError, FitError, InputError, OutputError, ExitCode } from "./errors.js";
-export { RandomStream } from "./random.js";
+export { RandomStream, StreamPurpose, streamFor } from "./random.js";

@@ -16,7 +16,7 @@ import { selectLabels, selectRows, type Dataset } from "../data/dataset.js";
 import type { FittedModel, Learner, LearnerSettings, RegressionLearner } from "../learners/learner.js";
 import { createLearner, createRegressionLearner } from "../learners/registry.js";
 import { scratchDoubles } from "../learners/scratch.js";
-import { RandomStream } from "../random.js";
+import { StreamPurpose, streamFor, type RandomStream } from "../random.js";
 import { groupKFold } from "../splitters/groupKFold.js";
 import { kFold } from "../splitters/kFold.js";
 import type { Split } from "../splitters/split.js";
@@ -52,9 +52,6 @@ export interface FitPlan {
   /** Whether inner folds keep runs whole (the outer folds do). @default false */
   groupedInner?: boolean;
 }
-
-/** Stream tags, so that streams for different purposes never coincide. */
-export const StreamPurpose = { folds: 1, order: 2, learner: 3, tuningFolds: 4, tuningLearner: 5 } as const;
 
 /** Folds of the inner cross-validation that tunes a learner (3 is common practice for small data). */
 export const innerFolds = 3;
@@ -111,11 +108,11 @@ export function runFitTask(data: Dataset, plan: FitPlan, task: FitTask): number[
     const rows = task.orderedTrain.subarray(0, task.prefixLengths?.[s] ?? size);
     let choice = -1;
     if (grid !== undefined) {
-      const random = new RandomStream(plan.seed, StreamPurpose.tuningFolds, task.repeat, task.fold, s);
+      const random = streamFor(plan.seed, StreamPurpose.tuningFolds, task.repeat, task.fold, s);
       choice = chooseSettings(data, plan, learner, grid, metric, rows, random, [task.repeat, task.fold, s]);
     }
     const fitted = choice >= 0 ? withSettings(learner, grid![choice]) : learner;
-    const random = new RandomStream(plan.seed, StreamPurpose.learner, task.repeat, task.fold, s);
+    const random = streamFor(plan.seed, StreamPurpose.learner, task.repeat, task.fold, s);
     const features = nestedFeatures.subarray(0, rows.length * columns);
     scores.push(fitAndScore(data, fitted, metric, rows, test, random, warm, features));
     chosen.push(choice);
@@ -217,7 +214,7 @@ function chooseSettings(
     const candidate = withSettings(learner, settings);
     let sum = 0;
     folds.forEach((fold, f) => {
-      const stream = new RandomStream(plan.seed, StreamPurpose.tuningLearner, ...path, g, f);
+      const stream = streamFor(plan.seed, StreamPurpose.tuningLearner, ...path, g, f);
       sum += fitAndScore(data, candidate, metric, fold.train, fold.test, stream);
     });
     const mean = sum / folds.length;

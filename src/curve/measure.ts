@@ -18,7 +18,7 @@ import type { Dataset } from "../data/dataset.js";
 import { DataError, UsageError } from "../errors.js";
 import { learnerNames, regressionLearnerNames } from "../learners/registry.js";
 import { message } from "../messages.js";
-import { RandomStream } from "../random.js";
+import { StreamPurpose, streamFor } from "../random.js";
 import { toolVersion } from "../version.js";
 import { chooseDesign, type SplitDesign } from "../splitters/design.js";
 import { nestedRandomOrder, nestedRunOrder, nestedStratifiedOrder } from "../splitters/nestedSubsamples.js";
@@ -26,7 +26,6 @@ import type { Split } from "../splitters/split.js";
 import { datasetDigest, runWithCheckpoint, type CheckpointOptions } from "./checkpoint.js";
 import type { CurveFile } from "./curveFile.js";
 import {
-  StreamPurpose,
   createAnyLearner,
   fitResultLength,
   innerFolds,
@@ -204,7 +203,7 @@ export async function measureCurve(
 
   // 3. folds fixed once per repeat
   const splitsByRepeat: Split[][] = Array.from({ length: o.repeats }, (_, repeat) =>
-    design.splits(new RandomStream(o.seed, StreamPurpose.folds, repeat)),
+    design.splits(streamFor(o.seed, StreamPurpose.folds, repeat)),
   );
 
   // 4. training sizes, in rows or in runs
@@ -221,7 +220,7 @@ export async function measureCurve(
         if (skipped++ === 0) firstReason = reason;
         return;
       }
-      const order = new RandomStream(o.seed, StreamPurpose.order, repeat, fold);
+      const order = streamFor(o.seed, StreamPurpose.order, repeat, fold);
       const task: FitTask = { index: tasks.length, repeat, fold, orderedTrain: split.train, test: split.test };
       if (design.byRuns) {
         const { rows, runEnds } = nestedRunOrder(split.train, data.groups!, order);

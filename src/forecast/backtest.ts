@@ -44,7 +44,7 @@ import {
   type FamilyFit,
   type OrientedPoint,
 } from "../fit/families.js";
-import { RandomStream } from "../random.js";
+import { StreamPurpose, streamFor } from "../random.js";
 import type { BacktestPrediction } from "./forecastFile.js";
 import type { MeasuredCurve } from "./measuredCurve.js";
 import { repeatLabels, resampledPoints } from "./resampling.js";
@@ -79,8 +79,6 @@ export interface FamilyAssessment {
 
 /** Bootstrap resamples that measure the noise in the backtest errors. */
 const backtestResamples = 30;
-/** Stream tag of the backtest's resamples (draws use `RandomStream(seed, j)` with j < draws). */
-const backtestStream = -1;
 
 /** Smallest number of sizes a backtest fit uses, for S measured sizes (no backtest when > S − 1). */
 export function firstBacktestCut(sizeCount: number): number {
@@ -90,7 +88,7 @@ export function firstBacktestCut(sizeCount: number): number {
 /**
  * Fits the candidate families, backtests them and weighs them (see the file comment).
  * @param forced a family the user chose (`--family`); it alone is used, backtested when it can be.
- * @param seed seeds the backtest's resamples, `new RandomStream(seed, −1, r)` for resample r.
+ * @param seed seeds the backtest's resamples, `StreamPurpose.backtestResample` (resample r).
  * @throws FitError when no candidate family can be fitted.
  */
 export function assessFamilies(
@@ -114,7 +112,7 @@ export function assessFamilies(
   const labels = repeatLabels(measured);
   const resamples = canBacktest
     ? Array.from({ length: backtestResamples }, (_, r) =>
-        resampledPoints(measured, labels, new RandomStream(seed, backtestStream, r)),
+        resampledPoints(measured, labels, streamFor(seed, StreamPurpose.backtestResample, r)),
       )
     : [];
 

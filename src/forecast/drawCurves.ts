@@ -18,7 +18,7 @@
  * 4. adds the family's extrapolation error, τ · sqrt(ln(n / largest measured size)) times one
  *    standard normal shared by every size beyond the largest measured one (`assessFamilies`).
  *
- * Deterministic for a seed: draw j uses `new RandomStream(seed, j)` for its repeats and normals.
+ * Deterministic for a seed: draw j uses the stream `StreamPurpose.curveDraw` (j) for its repeats and normals.
  */
 import { FitError } from "../errors.js";
 import {
@@ -28,7 +28,7 @@ import {
   type FamilyFit,
   type OrientedPoint,
 } from "../fit/families.js";
-import { RandomStream } from "../random.js";
+import { StreamPurpose, streamFor } from "../random.js";
 import type { AssessedFamily } from "./backtest.js";
 import type { MeasuredCurve } from "./measuredCurve.js";
 import { repeatLabels, resampledPoints } from "./resampling.js";
@@ -67,7 +67,7 @@ export function drawCurves(
   const result: DrawnCurves = { curves: [], requested: options.draws, retried: 0, dropped: 0 };
   for (let j = 0; j < options.draws; j++) {
     const assessed = families[assignment[j]];
-    const random = new RandomStream(options.seed, j);
+    const random = streamFor(options.seed, StreamPurpose.curveDraw, j);
     // A size none of whose repeats was drawn sits this refit out.
     const resampled = resampledPoints(measured, labels, random).filter((p): p is OrientedPoint => p !== null);
     const shift = shiftStandardDeviation * random.normal();

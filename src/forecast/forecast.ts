@@ -15,7 +15,7 @@ import { forecastWarnings } from "./forecastWarnings.js";
 import { measuredCurve } from "./measuredCurve.js";
 import { quantileSorted } from "./quantile.js";
 import { sampleShift, singleModelSpread } from "./sampleUncertainty.js";
-import { RandomStream } from "../random.js";
+import { StreamPurpose, streamFor } from "../random.js";
 import { sizesInRows } from "../curve/sizesInRows.js";
 import { targetSize } from "./targetSize.js";
 
@@ -318,7 +318,7 @@ function leadingFamily(families: readonly AssessedFamily[]): AssessedFamily {
 /**
  * Values one model trained at `trainingSize` would score on the test set: each draw plus
  * `singleModelDrawsPerCurve` normal deviates with the single-model variance, clamped to the range.
- * Draw j's deviates come from `new RandomStream(seed, j, projection + 1)`.
+ * Draw j's deviates come from the stream `StreamPurpose.singleModel` (j, projection).
  */
 function singleModelValues(
   draws: readonly number[],
@@ -330,7 +330,7 @@ function singleModelValues(
 ): number[] {
   const values: number[] = [];
   draws.forEach((draw, j) => {
-    const random = new RandomStream(seed, j, projection + 1);
+    const random = streamFor(seed, StreamPurpose.singleModel, j, projection);
     const deviation = Math.sqrt(Math.max(0, spread.variance(draw, trainingSize)));
     for (let k = 0; k < singleModelDrawsPerCurve; k++) {
       const value = draw + deviation * random.normal();

@@ -11,7 +11,7 @@
  * sign = +1 when a higher score is better. The expected net value uses the point forecast's expected
  * score (averaged over the yields), as the foundation issue defined it.
  */
-import { RandomStream } from "../random.js";
+import { StreamPurpose, streamFor } from "../random.js";
 import type { DecisionRow } from "./decisionFile.js";
 import { costOfRuns, monthsOfRuns, type ResolvedPlan } from "./plan.js";
 import type { ProjectionGrid } from "./projectionGrid.js";
@@ -57,9 +57,6 @@ export interface TableResult {
   clinicalMinimumUnaffordable: boolean;
 }
 
-/** Stream path of the yield draws: draw j uses `new RandomStream(seed, yieldStreamPath, j)`. */
-export const yieldStreamPath = 51;
-
 /**
  * Training size of each draw after 0..maxRuns runs: sizes[j][k]. The same streams serve every call,
  * so a sensitivity run with a scaled yield meets the same luck (common random numbers).
@@ -67,7 +64,7 @@ export const yieldStreamPath = 51;
 export function drawnSizes(resolved: ResolvedPlan, context: TableContext): number[][] {
   const { maxRuns } = resolved.plan;
   return Array.from({ length: context.grid.drawCount }, (_, j) => {
-    const stream = new RandomStream(context.seed, yieldStreamPath, j);
+    const stream = streamFor(context.seed, StreamPurpose.runYield, j);
     const sizes = [context.today];
     for (let runs = 1; runs <= maxRuns; runs++) sizes.push(sizes[runs - 1] + runYield(resolved.yieldModel, stream));
     return sizes;

@@ -11,7 +11,7 @@ import { findMetric } from "../curve/metrics.js";
 import { DataError } from "../errors.js";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import { message } from "../messages.js";
-import { RandomStream } from "../random.js";
+import { StreamPurpose, streamFor } from "../random.js";
 import { clinicalSampleSize, criterionInWords } from "./clinicalSampleSize.js";
 import type {
   ClinicalFloor,
@@ -74,8 +74,6 @@ const defaultSimulations = 4000;
 const largestPilot = 12;
 /** Forecast draws used as the prior of the value of information (a systematic subsample beyond). */
 const largestPriorDraws = 1000;
-/** Stream path of the value-of-information simulations: pilot k uses (seed, path, k). */
-const informationStreamPath = 52;
 /** One-sided confidence of the validation-set lower bound. */
 const validationConfidence = 0.95;
 
@@ -229,7 +227,7 @@ function pilotInformation(
       payoff,
       pilotScores,
       observationSd,
-      new RandomStream(context.seed, informationStreamPath, runs),
+      streamFor(context.seed, StreamPurpose.pilotValue, runs),
       simulations,
     );
     pilots.push({

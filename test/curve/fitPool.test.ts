@@ -6,10 +6,10 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { poolSettings, runFitTasks } from "../../src/curve/fitPool.js";
-import { StreamPurpose, type FitPlan, type FitTask } from "../../src/curve/fitTask.js";
+import { type FitPlan, type FitTask } from "../../src/curve/fitTask.js";
 import type { Dataset } from "../../src/data/dataset.js";
 import { InterruptedError } from "../../src/errors.js";
-import { RandomStream } from "../../src/random.js";
+import { StreamPurpose, streamFor } from "../../src/random.js";
 import { nestedStratifiedOrder } from "../../src/splitters/nestedSubsamples.js";
 import { stratifiedKFold } from "../../src/splitters/stratifiedKFold.js";
 import { loadOpenData } from "../helpers/openData.js";
@@ -22,8 +22,8 @@ const plan: FitPlan = { trainingSizes: [12, 30, 60, 100], learner: "logistic", m
 function makeTasks(): FitTask[] {
   const tasks: FitTask[] = [];
   for (let repeat = 0; repeat < 3; repeat++) {
-    stratifiedKFold(labels, 5, new RandomStream(plan.seed, StreamPurpose.folds, repeat)).forEach((split, fold) => {
-      const order = new RandomStream(plan.seed, StreamPurpose.order, repeat, fold);
+    stratifiedKFold(labels, 5, streamFor(plan.seed, StreamPurpose.folds, repeat)).forEach((split, fold) => {
+      const order = streamFor(plan.seed, StreamPurpose.order, repeat, fold);
       const orderedTrain = nestedStratifiedOrder(split.train, labels, order);
       tasks.push({ index: tasks.length, repeat, fold, orderedTrain, test: split.test });
     });

@@ -24,54 +24,93 @@ export const ExitCode = {
 
 export type ExitCodeValue = (typeof ExitCode)[keyof typeof ExitCode];
 
-/** Base class: an error a user can act on, with a one-line message. */
+/**
+ * How a front end names an option of a library call, given the option's name in the call's options
+ * object (`repeats`, `trainingSizes`): `--repeats` and `--sizes` on the command line,
+ * `measure.repeats` and `measure.sizes` in a study file.
+ */
+export type OptionNamer = (option: string) => string;
+
+/** The library's own naming: an option is called by its name in the options object. */
+export const libraryNames: OptionNamer = (option) => option;
+
+/**
+ * An error's text: a string, or a function of the namer when the text mentions options, so that each
+ * front end can name them its own way.
+ */
+export type ErrorText = string | ((name: OptionNamer) => string);
+
+/** What an error is about, when it is an option of the library call. */
+export interface ErrorSubject {
+  option: string;
+}
+
+/**
+ * Base class: an error a user can act on, with a one-line message. `message` names options as the
+ * library does (`repeats: ...`); a front end says the same with its own names through `describe`.
+ */
 export class HeadroomError extends Error {
   readonly exitCode: ExitCodeValue;
-  constructor(message: string, exitCode: ExitCodeValue) {
-    super(message);
+  /** The option the error is about, if any; `describe` starts with its name. */
+  readonly subject: ErrorSubject | undefined;
+  private readonly text: ErrorText;
+  constructor(text: ErrorText, exitCode: ExitCodeValue, subject?: ErrorSubject) {
+    super(describeText(text, subject, libraryNames));
     this.name = new.target.name;
     this.exitCode = exitCode;
+    this.subject = subject;
+    this.text = text;
   }
+
+  /** The one-line message, with options named by `name`. */
+  describe(name: OptionNamer): string {
+    return describeText(this.text, this.subject, name);
+  }
+}
+
+function describeText(text: ErrorText, subject: ErrorSubject | undefined, name: OptionNamer): string {
+  const body = typeof text === "string" ? text : text(name);
+  return subject === undefined ? body : `${name(subject.option)}: ${body}`;
 }
 
 /** Wrong command-line use or option value. */
 export class UsageError extends HeadroomError {
-  constructor(message: string) {
-    super(message, ExitCode.usage);
+  constructor(text: ErrorText, subject?: ErrorSubject) {
+    super(text, ExitCode.usage, subject);
   }
 }
 
 /** Bad content in an input file (CSV, JSON, plan). */
 export class DataError extends HeadroomError {
-  constructor(message: string) {
-    super(message, ExitCode.data);
+  constructor(text: ErrorText, subject?: ErrorSubject) {
+    super(text, ExitCode.data, subject);
   }
 }
 
 /** A curve could not be fitted or a forecast could not be made from the given points. */
 export class FitError extends HeadroomError {
-  constructor(message: string) {
-    super(message, ExitCode.data);
+  constructor(text: ErrorText, subject?: ErrorSubject) {
+    super(text, ExitCode.data, subject);
   }
 }
 
 /** An input file is missing or unreadable. */
 export class InputError extends HeadroomError {
-  constructor(message: string) {
-    super(message, ExitCode.noInput);
+  constructor(text: ErrorText, subject?: ErrorSubject) {
+    super(text, ExitCode.noInput, subject);
   }
 }
 
 /** An output could not be written. */
 export class OutputError extends HeadroomError {
-  constructor(message: string) {
-    super(message, ExitCode.io);
+  constructor(text: ErrorText, subject?: ErrorSubject) {
+    super(text, ExitCode.io, subject);
   }
 }
 
 /** The run was stopped (Ctrl-C) before it finished; work done so far may be resumed. */
 export class InterruptedError extends HeadroomError {
-  constructor(message: string) {
-    super(message, ExitCode.interrupted);
+  constructor(text: ErrorText, subject?: ErrorSubject) {
+    super(text, ExitCode.interrupted, subject);
   }
 }

@@ -3,7 +3,8 @@
  */
 
 // Data
-export { readCsv, parseCsv, readTextFile, type CsvTable } from "./data/csv.js";
+export { readCsv, parseCsv, type CsvTable } from "./data/csv.js";
+export { readTextFile } from "./io/files.js";
 export { tableToDataset, type ColumnChoice } from "./data/tableToDataset.js";
 export { readDataset } from "./data/readDataset.js";
 export type { Dataset } from "./data/dataset.js";
@@ -115,5 +116,17 @@ export { runStudy, type StudyRunOptions, type StudyResult } from "./study/runStu
 export { studySchema, type Study } from "./study/studyFile.js";
 
 // Errors and randomness
-export { HeadroomError, UsageError, DataError, FitError, InputError, OutputError, ExitCode } from "./errors.js";
+export {
+  HeadroomError,
+  UsageError,
+  DataError,
+  FitError,
+  InputError,
+  OutputError,
+  ExitCode,
+  libraryNames,
+  type ErrorSubject,
+  type ErrorText,
+  type OptionNamer,
+} from "./errors.js";
 export { RandomStream, StreamPurpose, streamFor } from "./random.js";

@@ -1,7 +1,13 @@
 /**
  * Every user-facing error message, in one place. Each is one line saying what is wrong and where
  * (file, line, column, option or key), so a user can fix it without reading code.
+ *
+ * A message about an option of a library call leaves the option's name out: the error carries it as
+ * its subject (`new UsageError(message.notWholeNumber(...), { option: "repeats" })`), and each front
+ * end names it its own way (`--repeats` on the command line, `measure.repeats` in a study file). A
+ * message that mentions another option takes the front end's namer `n` (an `ErrorText` function).
  */
+import type { ErrorText, OptionNamer } from "./errors.js";
 
 /** `file:line:column` or `file:line`, as compilers print positions. */
 export function at(file: string, line?: number, column?: number): string {
@@ -13,8 +19,8 @@ export const message = {
   fileMissing: (file: string) => `${file}: no such file`,
   fileUnreadable: (file: string, reason: string) => `${file}: cannot be read (${reason})`,
   notUtf8: (file: string, line: number) => `${at(file, line)}: the file is not UTF-8 text`,
-  binaryContent: (file: string, line: number) =>
-    `${at(file, line)}: the file contains binary data (a NUL byte); expected CSV text`,
+  binaryContent: (file: string, line: number, format: "CSV" | "JSON") =>
+    `${at(file, line)}: the file contains binary data (a NUL byte); expected ${format} text`,
   emptyFile: (file: string) => `${file}: the file is empty`,
   headerOnly: (file: string) => `${file}: the file has a header but no data rows`,
   csvSyntax: (file: string, line: number, detail: string) => `${at(file, line)}: CSV syntax error: ${detail}`,
@@ -23,8 +29,10 @@ export const message = {
   emptyColumnName: (file: string, column: number) => `${at(file, 1, column)}: the header has an empty column name`,
   duplicateColumn: (file: string, name: string, first: number, second: number) =>
     `${at(file, 1, second)}: duplicate column name '${name}' (also column ${first})`,
-  columnMissing: (file: string, option: string, name: string, available: string[]) =>
-    `${file}: ${option} column '${name}' is not in the header (columns: ${preview(available)})`,
+  columnMissing:
+    (file: string, option: string, name: string, available: string[]): ErrorText =>
+    (n: OptionNamer) =>
+      `${file}: ${n(option)} column '${name}' is not in the header (columns: ${preview(available)})`,
   labelMissing: (file: string, line: number, column: number, name: string) =>
     `${at(file, line, column)}: the label '${name}' is empty`,
   notANumber: (file: string, line: number, column: number, columnName: string, text: string) =>
@@ -34,39 +42,49 @@ export const message = {
   noFeatures: (file: string) => `${file}: no feature columns are left besides the label, group and ignored columns`,
   oneClass: (file: string, label: string, className: string) =>
     `${file}: the label column '${label}' has only one class ('${clip(className)}'); a learning curve needs at least two`,
-  classTooSmall: (file: string, className: string, count: number, folds: number) =>
-    `${file}: class '${clip(className)}' has ${count} row${count === 1 ? "" : "s"}, fewer than --folds ${folds}; lower --folds or collect more of that class`,
+  classTooSmall: (file: string, className: string, count: number, folds: number, n: OptionNamer) =>
+    `${file}: class '${clip(className)}' has ${count} row${count === 1 ? "" : "s"}, fewer than ${n("folds")} ${folds}; lower ${n("folds")} or collect more of that class`,
   tooFewRows: (file: string, rows: number, needed: number) =>
     `${file}: ${rows} rows are too few for a learning curve (at least ${needed} needed)`,
   sizeTooLarge: (size: number, pool: number) =>
-    `--sizes: training size ${size} is larger than the smallest training pool (${pool} rows after holding out a fold)`,
+    `training size ${size} is larger than the smallest training pool (${pool} rows after holding out a fold)`,
   sizeTooSmall: (size: number, classes: number) =>
-    `--sizes: training size ${size} is too small to hold each of the ${classes} classes`,
+    `training size ${size} is too small to hold each of the ${classes} classes`,
   sizeTooLargeRuns: (size: number, pool: number) =>
-    `--sizes: training size ${size} runs is more than the smallest training pool (${pool} runs after holding out a fold)`,
+    `training size ${size} runs is more than the smallest training pool (${pool} runs after holding out a fold)`,
   sizeTooSmallRegression: (size: number) =>
-    `--sizes: training size ${size} is too small to fit a numeric target (at least 2 rows)`,
+    `training size ${size} is too small to fit a numeric target (at least 2 rows)`,
   tooFewRuns: (file: string, column: string, runs: number, needed: number) =>
     `${file}: ${runs} runs in '${clip(column)}' are too few for a learning curve against runs (at least ${needed} needed, for 3 training sizes after holding out a fold)`,
-  badFolds: (text: string) => `--folds: '${clip(text)}' is neither a whole number of at least 2 nor 'loo'`,
-  foldsAboveRows: (folds: number, rows: number) =>
-    `--folds ${folds} is more than the ${rows} rows; use --folds loo for leave-one-out`,
-  byRunsNeedsGroup: () => `--by-runs needs --group naming the column that says which run each row came from`,
+  badFolds: (text: string) => `'${clip(text)}' is neither a whole number of at least 2 nor 'loo'`,
+  foldsAboveRows:
+    (folds: number, rows: number): ErrorText =>
+    (n: OptionNamer) =>
+      `${folds} is more than the ${rows} rows; use ${n("folds")} loo for leave-one-out`,
+  byRunsNeedsGroup: (): ErrorText => (n: OptionNamer) =>
+    `needs ${n("group")} naming the column that says which run each row came from`,
   fewRunsFallback: (column: string, runs: number, splitter: string, byRuns: boolean) =>
     `--group '${clip(column)}' has only ${runs} run${runs === 1 ? "" : "s"}: runs cannot be kept whole across training and test with fewer than 3, so rows are split by ${splitter}${byRuns ? " and training sizes count rows, not runs" : ""}; scores may be optimistic, since rows of one run can be in both training and test`,
   foldsAboveRuns: (folds: number, runs: number, column: string) =>
     `--folds ${folds} is more than the ${runs} runs in '${clip(column)}': leave-one-run-out (${runs} folds) is used instead`,
-  taskMismatch: (option: string, name: string, kind: string, task: string) =>
-    `${option}: '${clip(name)}' is for ${kind}, but the task is ${task} (set --task, or choose another ${option.slice(2)})`,
+  taskMismatch:
+    (name: string, kind: string, task: string, what: string): ErrorText =>
+    (n: OptionNamer) =>
+      `'${clip(name)}' is for ${kind}, but the task is ${task} (set ${n("task")}, or choose another ${what})`,
   dataTaskMismatch: (task: string, dataTask: string) =>
-    `--task ${task}: the data set was read for ${dataTask}; read it with the same task`,
-  targetNotNumber: (file: string, line: number, column: number, name: string, text: string) =>
-    `${at(file, line, column)}: the target '${name}' is '${clip(text)}', not a finite number, as --task regression needs`,
-  numericLabelHint: (label: string) => ` (if '${clip(label)}' is a numeric target, pass --task regression)`,
-  mixedColumn: (file: string, line: number, column: number, columnName: string, text: string) =>
-    `${at(file, line, column)}: '${clip(text)}' in column '${columnName}' is not a number, though most of the column is numbers; fix the cell, leave it empty for a missing value, or --ignore the column`,
+    `the data set was read for ${dataTask}, not ${task}; read it with the same task`,
+  targetNotNumber:
+    (file: string, line: number, column: number, name: string, text: string): ErrorText =>
+    (n: OptionNamer) =>
+      `${at(file, line, column)}: the target '${name}' is '${clip(text)}', not a finite number, as ${n("task")} regression needs`,
+  numericLabelHint: (label: string, n: OptionNamer) =>
+    ` (if '${clip(label)}' is a numeric target, pass ${n("task")} regression)`,
+  mixedColumn:
+    (file: string, line: number, column: number, columnName: string, text: string): ErrorText =>
+    (n: OptionNamer) =>
+      `${at(file, line, column)}: '${clip(text)}' in column '${columnName}' is not a number, though most of the column is numbers; fix the cell, leave it empty for a missing value, or ${n("ignore")} the column`,
   metricUndefinedEverywhere: (metric: string, reason: string) =>
-    `--metric ${metric} is undefined on every test fold (${reason}); choose another metric or more folds per class`,
+    `${metric} is undefined on every test fold (${reason}); choose another metric or more folds per class`,
   metricUndefinedSome: (metric: string, skipped: number, total: number, reason: string) =>
     `--metric ${metric} is undefined on ${skipped} of ${total} test folds (first: ${reason}); their fits are left out, and each point's repeatOfScore says which repeat each score is from`,
   emptyColumns: (names: string[]) =>
@@ -78,15 +96,17 @@ export const message = {
       )}${names.length > 5 ? ` and ${names.length - 5} more` : ""} ${names.length === 1 ? "has" : "have"} no value in any row and add${names.length === 1 ? "s" : ""} nothing to the model; check the file, or --ignore ${names.length === 1 ? "it" : "them"}`,
   tuneWithoutGrid: (learner: string) =>
     `--tune: learner '${learner}' has no tuning grid yet, so it was measured with its default settings`,
-  badInteger: (option: string, text: string, min: number) =>
-    `${option}: '${clip(text)}' is not a whole number of at least ${min}`,
-  badNumber: (option: string, text: string) => `${option}: '${clip(text)}' is not a number`,
-  badLevel: (option: string, text: string) => `${option}: '${clip(text)}' is not a probability between 0 and 1`,
-  badList: (option: string, text: string) =>
-    `${option}: '${clip(text)}' is not a comma-separated list of whole numbers`,
+  /** A command-line option's problem, named as the command line spells it (`--repeats: ...`). */
+  optionProblem: (flag: string, detail: string) => `${flag}: ${detail}`,
+  badInteger: (text: string, min: number) => `'${clip(text)}' is not a whole number of at least ${min}`,
+  badNumber: (text: string) => `'${clip(text)}' is not a number`,
+  badLevel: (text: string) => `'${clip(text)}' is not a probability between 0 and 1`,
+  badList: (text: string) => `'${clip(text)}' is not a comma-separated list of whole numbers`,
   badJson: (file: string, line: number, column: number, detail: string) =>
     `${at(file, line, column)}: malformed JSON: ${detail}`,
   badKey: (file: string, key: string, detail: string) => `${file}: ${key}: ${detail}`,
+  /** A message about a file's content (a study file's option) prefixed with the file. */
+  inFile: (file: string, text: string) => `${file}: ${text}`,
   wrongFileKind: (file: string, expected: string) => `${file}: not a ${expected} file written by headroom`,
   curveTooShort: (sizes: number) =>
     `the curve has ${sizes} distinct training size${sizes === 1 ? "" : "s"}; a forecast needs at least 3`,
@@ -106,8 +126,7 @@ export const message = {
     `missing: give valuePerPoint, or casesPerYear, costPerError and yearsInUse, or a target score to reach`,
   planCoxSnellTooLarge: (value: number, largest: number) =>
     `${value} is not below ${largest.toFixed(4)}, the largest Cox–Snell R² a binary outcome with this prevalence allows`,
-  unknownName: (option: string, name: string, known: string[]) =>
-    `${option}: unknown name '${clip(name)}' (known: ${known.join(", ")})`,
+  unknownName: (name: string, known: string[]) => `unknown name '${clip(name)}' (known: ${known.join(", ")})`,
   checkpointExists: (file: string) =>
     `${file}: a checkpoint of an interrupted run is here; add --resume to continue it, or delete the file to start over`,
   checkpointMismatch: (file: string, changed: string[]) =>

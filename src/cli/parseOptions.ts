@@ -10,7 +10,7 @@ export function optionalInteger(option: string, text: string | undefined, min: n
   if (text === undefined) return undefined;
   const value = Number(text.trim());
   if (!/^[+-]?\d+$/.test(text.trim()) || !Number.isSafeInteger(value) || value < min)
-    throw new UsageError(message.badInteger(option, text, min));
+    throw new UsageError(message.optionProblem(option, message.badInteger(text, min)));
   return value;
 }
 
@@ -20,7 +20,7 @@ export function optionalFolds(text: string | undefined): number | "loo" | undefi
   if (text.trim().toLowerCase() === "loo") return "loo";
   const value = Number(text.trim());
   if (!/^[+-]?\d+$/.test(text.trim()) || !Number.isSafeInteger(value) || value < 2)
-    throw new UsageError(message.badFolds(text));
+    throw new UsageError(message.optionProblem("--folds", message.badFolds(text)));
   return value;
 }
 
@@ -28,7 +28,8 @@ export function optionalFolds(text: string | undefined): number | "loo" | undefi
 export function optionalProbability(option: string, text: string | undefined): number | undefined {
   if (text === undefined) return undefined;
   const value = Number(text.trim());
-  if (text.trim() === "" || !(value > 0 && value < 1)) throw new UsageError(message.badLevel(option, text));
+  if (text.trim() === "" || !(value > 0 && value < 1))
+    throw new UsageError(message.optionProblem(option, message.badLevel(text)));
   return value;
 }
 
@@ -36,6 +37,7 @@ export function optionalProbability(option: string, text: string | undefined): n
 export function optionalSizeList(option: string, text: string | undefined): number[] | undefined {
   if (text === undefined) return undefined;
   const parts = text.split(",").map((p) => p.trim());
-  if (parts.some((p) => !/^\d+$/.test(p) || Number(p) < 1)) throw new UsageError(message.badList(option, text));
+  if (parts.some((p) => !/^\d+$/.test(p) || Number(p) < 1))
+    throw new UsageError(message.optionProblem(option, message.badList(text)));
   return [...new Set(parts.map(Number))].sort((a, b) => a - b);
 }

@@ -3,7 +3,7 @@
  * this file assembles them and turns every failure into one line on stderr and an exit code.
  */
 import { Command, CommanderError } from "commander";
-import { ExitCode, HeadroomError, type ExitCodeValue } from "../errors.js";
+import { ExitCode, HeadroomError, type ExitCodeValue, type OptionNamer } from "../errors.js";
 import { toolVersion } from "../version.js";
 import { demoCommand } from "./commands/demo.js";
 import { forecastCommand } from "./commands/forecast.js";
@@ -39,6 +39,13 @@ export function buildProgram(io: CliIo, argv: readonly string[]): Command {
   return program;
 }
 
+/** Options whose flag is not the library option's name in kebab case. */
+const flagOfOption: Readonly<Record<string, string>> = { trainingSizes: "--sizes" };
+
+/** The command line's name of a library option: `repeats` → `--repeats`, `byRuns` → `--by-runs`. */
+export const commandLineNames: OptionNamer = (option) =>
+  flagOfOption[option] ?? `--${option.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}`;
+
 /**
  * Runs headroom with `argv` (without node and script) and returns the exit code. Never throws.
  */
@@ -58,7 +65,7 @@ export async function run(argv: readonly string[], io: CliIo): Promise<ExitCodeV
       return ExitCode.usage;
     }
     if (error instanceof HeadroomError) {
-      io.stderr(`headroom: ${error.message}\n`);
+      io.stderr(`headroom: ${error.describe(commandLineNames)}\n`);
       if (debug) io.stderr(`${error.stack}\n`);
       return error.exitCode;
     }

@@ -106,7 +106,7 @@ export function resolveMeasureOptions(
   const metricTask = options.metric === undefined ? undefined : findMetric(options.metric)?.task;
   const task = options.task ?? learnerTask ?? metricTask ?? dataTask ?? "classification";
   if (task !== "classification" && task !== "regression")
-    throw new UsageError(message.unknownName("--task", String(task), ["classification", "regression"]));
+    throw new UsageError(message.unknownName(String(task), ["classification", "regression"]), { option: "task" });
   const regression = task === "regression";
   const resolved = {
     folds: options.folds ?? 5,
@@ -122,30 +122,32 @@ export function resolveMeasureOptions(
     onProgress: options.onProgress,
   };
   if (resolved.folds !== "loo" && (!Number.isInteger(resolved.folds) || resolved.folds < 2))
-    throw new UsageError(message.badFolds(String(resolved.folds)));
+    throw new UsageError(message.badFolds(String(resolved.folds)), { option: "folds" });
   if (!Number.isInteger(resolved.repeats) || resolved.repeats < 1)
-    throw new UsageError(message.badInteger("--repeats", String(resolved.repeats), 1));
+    throw new UsageError(message.badInteger(String(resolved.repeats), 1), { option: "repeats" });
   if (!Number.isSafeInteger(resolved.seed))
-    throw new UsageError(message.badInteger("--seed", String(resolved.seed), 0));
+    throw new UsageError(message.badInteger(String(resolved.seed), 0), { option: "seed" });
   if (!Number.isInteger(resolved.workers) || resolved.workers < 1)
-    throw new UsageError(message.badInteger("--workers", String(resolved.workers), 1));
+    throw new UsageError(message.badInteger(String(resolved.workers), 1), { option: "workers" });
   const learnerOfTask = taskOfLearner(resolved.learner);
   if (learnerOfTask === undefined)
     throw new UsageError(
-      message.unknownName("--learner", resolved.learner, regression ? regressionLearnerNames() : learnerNames()),
+      message.unknownName(resolved.learner, regression ? regressionLearnerNames() : learnerNames()),
+      { option: "learner" },
     );
   if (learnerOfTask !== task)
-    throw new UsageError(message.taskMismatch("--learner", resolved.learner, learnerOfTask, task));
+    throw new UsageError(message.taskMismatch(resolved.learner, learnerOfTask, task, "learner"), { option: "learner" });
   const metric = findMetric(resolved.metric);
   if (!metric)
     throw new UsageError(
       message.unknownName(
-        "--metric",
         resolved.metric,
         metrics.map((m) => m.name),
       ),
+      { option: "metric" },
     );
-  if (metric.task !== task) throw new UsageError(message.taskMismatch("--metric", metric.name, metric.task, task));
+  if (metric.task !== task)
+    throw new UsageError(message.taskMismatch(metric.name, metric.task, task, "metric"), { option: "metric" });
   return resolved;
 }
 
@@ -170,7 +172,7 @@ export async function measureCurve(
   // 1. options
   const dataTask = data.targets ? "regression" : "classification";
   const o = resolveMeasureOptions(options, dataTask);
-  if (o.task !== dataTask) throw new UsageError(message.dataTaskMismatch(o.task, dataTask));
+  if (o.task !== dataTask) throw new UsageError(message.dataTaskMismatch(o.task, dataTask), { option: "task" });
   const metric = findMetric(o.metric)!;
   const classCount = data.classNames.length;
   const warnings: string[] = [];
@@ -195,8 +197,9 @@ export async function measureCurve(
     classCounts.forEach((count, k) => {
       if (count < design.folds)
         throw new DataError(
-          message.classTooSmall(file, data.classNames[k], count, design.folds) +
-            (numericLabels && provenance.label !== undefined ? message.numericLabelHint(provenance.label) : ""),
+          (n) =>
+            message.classTooSmall(file, data.classNames[k], count, design.folds, n) +
+            (numericLabels && provenance.label !== undefined ? message.numericLabelHint(provenance.label, n) : ""),
         );
     });
   }
@@ -232,7 +235,8 @@ export async function measureCurve(
     }),
   );
   const totalFolds = splitsByRepeat.reduce((sum, splits) => sum + splits.length, 0);
-  if (tasks.length === 0) throw new DataError(message.metricUndefinedEverywhere(metric.name, firstReason));
+  if (tasks.length === 0)
+    throw new DataError(message.metricUndefinedEverywhere(metric.name, firstReason), { option: "metric" });
   if (skipped > 0) warnings.push(message.metricUndefinedSome(metric.name, skipped, totalFolds, firstReason));
   const grid = o.tune ? tuningGridOf(createAnyLearner(o.learner)!) : undefined;
   if (o.tune && grid === undefined) warnings.push(message.tuneWithoutGrid(o.learner));
@@ -322,7 +326,8 @@ function checkedSizes(
     if (o.trainingSizes === undefined && sizes.length < 3)
       throw new DataError(message.tooFewRuns(file, groupColumn ?? "group", design.runs!, neededFor(1, design)));
     for (const size of sizes)
-      if (size > smallestPool) throw new UsageError(message.sizeTooLargeRuns(size, smallestPool));
+      if (size > smallestPool)
+        throw new UsageError(message.sizeTooLargeRuns(size, smallestPool), { option: "trainingSizes" });
     return sizes;
   }
   const smallestPool = Math.min(...splits.map((split) => split.train.length));
@@ -334,10 +339,12 @@ function checkedSizes(
     if (sizes.length < 3) throw new DataError(message.tooFewRows(file, data.rows, neededFor(smallest, design)));
   }
   const classCount = classCounts.length;
+  const sizesOption = { option: "trainingSizes" };
   for (const size of sizes) {
-    if (size > smallestPool) throw new UsageError(message.sizeTooLarge(size, smallestPool));
-    if (regression && size < 2) throw new UsageError(message.sizeTooSmallRegression(size));
-    if (!regression && size < Math.max(2, classCount)) throw new UsageError(message.sizeTooSmall(size, classCount));
+    if (size > smallestPool) throw new UsageError(message.sizeTooLarge(size, smallestPool), sizesOption);
+    if (regression && size < 2) throw new UsageError(message.sizeTooSmallRegression(size), sizesOption);
+    if (!regression && size < Math.max(2, classCount))
+      throw new UsageError(message.sizeTooSmall(size, classCount), sizesOption);
   }
   return sizes;
 }

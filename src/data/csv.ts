@@ -8,10 +8,10 @@
  * line number per row (papaparse reports only a row index, which drifts from lines as soon as a
  * quoted cell holds a newline or a blank line is skipped).
  */
-import { readFileSync, statSync } from "node:fs";
 import { createRequire } from "node:module";
 import type * as PapaModule from "papaparse";
-import { DataError, InputError } from "../errors.js";
+import { DataError } from "../errors.js";
+import { readTextFile } from "../io/files.js";
 import { message } from "../messages.js";
 
 /**
@@ -33,32 +33,7 @@ export interface CsvTable {
 
 /** Reads and parses a CSV file; throws InputError if unreadable, DataError if not CSV text. */
 export function readCsv(file: string): CsvTable {
-  return parseCsv(readTextFile(file), file);
-}
-
-/**
- * Reads a file as UTF-8 text (a leading byte-order mark is dropped).
- * @throws InputError when missing or unreadable; DataError when binary or not UTF-8.
- */
-export function readTextFile(file: string): string {
-  let bytes: Buffer;
-  try {
-    if (statSync(file).isDirectory()) throw new InputError(message.fileUnreadable(file, "it is a folder"));
-    bytes = readFileSync(file);
-  } catch (error) {
-    if (error instanceof InputError) throw error;
-    const code = (error as NodeJS.ErrnoException).code;
-    if (code === "ENOENT") throw new InputError(message.fileMissing(file));
-    throw new InputError(message.fileUnreadable(file, code ?? String(error)));
-  }
-  const nul = bytes.indexOf(0);
-  if (nul >= 0) throw new DataError(message.binaryContent(file, lineOfByte(bytes, nul)));
-  try {
-    const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
-    return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  } catch {
-    throw new DataError(message.notUtf8(file, lineOfByte(bytes, firstInvalidUtf8(bytes))));
-  }
+  return parseCsv(readTextFile(file, "CSV"), file);
 }
 
 /** Parses CSV text. `file` is used in messages only. */
@@ -128,27 +103,4 @@ function headerDelimiter(text: string): string {
   const candidates = [",", ";", "\t"].map((d) => ({ d, n: count(d) }));
   const best = candidates.reduce((a, b) => (b.n > a.n ? b : a));
   return best.n > 0 ? best.d : ",";
-}
-
-function lineOfByte(bytes: Buffer, offset: number): number {
-  let line = 1;
-  for (let i = 0; i < offset; i++) if (bytes[i] === 10) line++;
-  return line;
-}
-
-/** Offset of the first byte that breaks UTF-8, found by decoding growing prefixes line by line. */
-function firstInvalidUtf8(bytes: Buffer): number {
-  const decoder = new TextDecoder("utf-8", { fatal: true });
-  let start = 0;
-  while (start < bytes.length) {
-    let end = bytes.indexOf(10, start);
-    if (end < 0) end = bytes.length;
-    try {
-      decoder.decode(bytes.subarray(start, end));
-    } catch {
-      return start;
-    }
-    start = end + 1;
-  }
-  return 0;
 }

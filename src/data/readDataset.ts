@@ -9,7 +9,8 @@
  * A column with text in it is named by its cells as written, so only then is the text parsed a second
  * time.
  */
-import { checkRowCount, parseCsv, parseCsvRows, readTextFile } from "./csv.js";
+import { readTextFile } from "../io/files.js";
+import { checkRowCount, parseCsv, parseCsvRows } from "./csv.js";
 import type { Dataset } from "./dataset.js";
 import { DatasetBuilder, type ColumnChoice } from "./tableToDataset.js";
 
@@ -21,7 +22,7 @@ import { DatasetBuilder, type ColumnChoice } from "./tableToDataset.js";
  *   absent; DataError for content that is not CSV text or a bad header or cell.
  */
 export function readDataset(file: string, choice: ColumnChoice): Dataset {
-  const text = readTextFile(file);
+  const text = readTextFile(file, "CSV");
   let builder: DatasetBuilder | undefined;
   let rows = 0;
   // The first error of the conversion, kept until the parse has found any syntax error before it.

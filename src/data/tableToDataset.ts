@@ -90,9 +90,9 @@ export class DatasetBuilder {
       if (index < 0) throw new UsageError(message.columnMissing(file, option, name, header));
       return index;
     };
-    this.labelColumn = indexOf("--label", choice.label);
-    this.groupColumn = choice.group === undefined ? -1 : indexOf("--group", choice.group);
-    const ignored = new Set((choice.ignore ?? []).map((name) => indexOf("--ignore", name)));
+    this.labelColumn = indexOf("label", choice.label);
+    this.groupColumn = choice.group === undefined ? -1 : indexOf("group", choice.group);
+    const ignored = new Set((choice.ignore ?? []).map((name) => indexOf("ignore", name)));
     this.featureColumns = header
       .map((_, i) => i)
       .filter((i) => i !== this.labelColumn && i !== this.groupColumn && !ignored.has(i));

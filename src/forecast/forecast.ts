@@ -134,17 +134,17 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
   return { at, level, seed, draws, family, target, confidence, testSize };
 }
 
-/** The curve family named by `--family`; throws UsageError naming the known ones. */
+/** The curve family named by the `family` option; throws UsageError naming the known ones. */
 export function familyOption(name: string): CurveFamily {
   try {
     return findCurveFamily(name);
   } catch {
     throw new UsageError(
       message.unknownName(
-        "--family",
         name,
         curveFamilies.map((f) => f.name),
       ),
+      { option: "family" },
     );
   }
 }

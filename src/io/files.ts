@@ -15,8 +15,7 @@ import {
   type Stats,
 } from "node:fs";
 import { dirname, resolve } from "node:path";
-import { DataError, OutputError } from "../errors.js";
-import { readTextFile } from "../data/csv.js";
+import { DataError, InputError, OutputError } from "../errors.js";
 import { message } from "../messages.js";
 import { findJsonSyntaxError } from "./jsonSyntax.js";
 
@@ -92,7 +91,7 @@ export function toJson(value: unknown): string {
  * @throws InputError when missing; DataError with line and column when malformed
  */
 export function readJsonFile(file: string): unknown {
-  const text = readTextFile(file);
+  const text = readTextFile(file, "JSON");
   if (text.trim() === "") throw new DataError(message.emptyFile(file));
   try {
     return JSON.parse(text);
@@ -112,4 +111,53 @@ export function readJsonFile(file: string): unknown {
 /** SHA-256 of a file's bytes, hex. */
 export function sha256OfFile(file: string): string {
   return createHash("sha256").update(readFileSync(file)).digest("hex");
+}
+
+/**
+ * Reads a file as UTF-8 text (a leading byte-order mark is dropped); `format` is what the text
+ * should be, for the message when it is binary.
+ * @throws InputError when missing or unreadable; DataError when binary or not UTF-8.
+ */
+export function readTextFile(file: string, format: "CSV" | "JSON"): string {
+  let bytes: Buffer;
+  try {
+    if (statSync(file).isDirectory()) throw new InputError(message.fileUnreadable(file, "it is a folder"));
+    bytes = readFileSync(file);
+  } catch (error) {
+    if (error instanceof InputError) throw error;
+    const code = (error as NodeJS.ErrnoException).code;
+    if (code === "ENOENT") throw new InputError(message.fileMissing(file));
+    throw new InputError(message.fileUnreadable(file, code ?? String(error)));
+  }
+  const nul = bytes.indexOf(0);
+  if (nul >= 0) throw new DataError(message.binaryContent(file, lineOfByte(bytes, nul), format));
+  try {
+    const text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+    return text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  } catch {
+    throw new DataError(message.notUtf8(file, lineOfByte(bytes, firstInvalidUtf8(bytes))));
+  }
+}
+
+function lineOfByte(bytes: Buffer, offset: number): number {
+  let line = 1;
+  for (let i = 0; i < offset; i++) if (bytes[i] === 10) line++;
+  return line;
+}
+
+/** Offset of the first byte that breaks UTF-8, found by decoding growing prefixes line by line. */
+function firstInvalidUtf8(bytes: Buffer): number {
+  const decoder = new TextDecoder("utf-8", { fatal: true });
+  let start = 0;
+  while (start < bytes.length) {
+    let end = bytes.indexOf(10, start);
+    if (end < 0) end = bytes.length;
+    try {
+      decoder.decode(bytes.subarray(start, end));
+    } catch {
+      return start;
+    }
+    start = end + 1;
+  }
+  return 0;
 }

@@ -65,7 +65,8 @@ export interface SplitDesign {
 export function chooseDesign(input: DesignInput): SplitDesign {
   const warnings: string[] = [];
   const runs = input.groups === undefined ? undefined : new Set(input.groups).size;
-  if (input.byRuns && input.groups === undefined) throw new UsageError(message.byRunsNeedsGroup());
+  if (input.byRuns && input.groups === undefined)
+    throw new UsageError(message.byRunsNeedsGroup(), { option: "byRuns" });
   const column = input.groupColumn ?? "group";
 
   if (input.groups !== undefined && runs !== undefined && runs >= fewestRunsToKeepWhole) {
@@ -91,7 +92,7 @@ function ungroupedDesign(input: DesignInput): Pick<SplitDesign, "splitter" | "fo
     return { splitter: "leave-one-out", folds: rows, splits: () => leaveOneOut(rows) };
   }
   const folds = input.folds;
-  if (folds > rows) throw new UsageError(message.foldsAboveRows(folds, rows));
+  if (folds > rows) throw new UsageError(message.foldsAboveRows(folds, rows), { option: "folds" });
   if (input.task === "regression") return { splitter: "k-fold", folds, splits: (random) => kFold(rows, folds, random) };
   const labels = input.labels;
   return { splitter: "stratified-k-fold", folds, splits: (random) => stratifiedKFold(labels, folds, random) };

@@ -130,7 +130,7 @@ describe("headroom measure options", () => {
       "headroom: --metric: unknown name 'auc' (known: accuracy, balanced_accuracy, roc_auc, log_loss, brier, f1_macro, rmse, mae, r2)",
     ],
     [["--task", "ranking"], "headroom: --task: unknown name 'ranking' (known: classification, regression)"],
-    [["--by-runs"], "headroom: --by-runs needs --group"],
+    [["--by-runs"], "headroom: --by-runs: needs --group"],
     [
       ["--metric", "rmse", "--learner", "logistic"],
       "headroom: --metric: 'rmse' is for regression, but the task is classification",

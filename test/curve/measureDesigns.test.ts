@@ -137,7 +137,7 @@ describe("leave-one-out", () => {
   it("refuses ROC AUC, undefined on every one-row test fold", async () => {
     const attempt = measureCurve(dataset(30), "d.csv", { folds: "loo", learner: "recorder", metric: "roc_auc" });
     await expect(attempt).rejects.toThrow(DataError);
-    await expect(attempt).rejects.toThrow("--metric roc_auc is undefined on every test fold");
+    await expect(attempt).rejects.toThrow("metric: roc_auc is undefined on every test fold");
   });
 });
 
@@ -212,7 +212,7 @@ describe("runs kept whole (--group)", () => {
     [
       { byRuns: true, trainingSizes: [9] },
       UsageError,
-      "--sizes: training size 9 runs is more than the smallest training pool (8 runs",
+      "trainingSizes: training size 9 runs is more than the smallest training pool (8 runs",
     ],
     [{ byRuns: true, folds: "loo" }, DataError, "3 runs in 'run' are too few"],
   ])("rejects %o", async (options, errorClass, text) => {
@@ -292,16 +292,16 @@ describe("numeric targets (regression)", () => {
   it.each([
     [
       { learner: "regression-fake", metric: "accuracy" },
-      "--metric: 'accuracy' is for classification, but the task is regression",
+      "metric: 'accuracy' is for classification, but the task is regression",
     ],
     [
       { task: "regression" as const, learner: "recorder" },
-      "--learner: 'recorder' is for classification, but the task is regression",
+      "learner: 'recorder' is for classification, but the task is regression",
     ],
-    [{ learner: "recorder" }, "--task classification: the data set was read for regression"],
+    [{ learner: "recorder" }, "task: the data set was read for regression, not classification"],
     [
       { learner: "regression-fake", trainingSizes: [1, 10] },
-      "--sizes: training size 1 is too small to fit a numeric target",
+      "trainingSizes: training size 1 is too small to fit a numeric target",
     ],
   ])("rejects %o", async (options, text) => {
     const attempt = measureCurve(regressionData(), "r.csv", options);

@@ -58,7 +58,7 @@ describe("tableToDataset", () => {
     [
       "a text target",
       "x,y\n1,2\n2,abc\n",
-      "d.csv:3:2: the target 'y' is 'abc', not a finite number, as --task regression needs",
+      "d.csv:3:2: the target 'y' is 'abc', not a finite number, as task regression needs",
     ],
     ["an infinite target", "x,y\n1,2\n2,Infinity\n", "d.csv:3:2: 'Infinity' in column 'y' is not a finite number"],
     ["an empty target", "x,y\n1,2\n2,\n", "d.csv:3:2: the label 'y' is empty"],
@@ -76,7 +76,7 @@ describe("tableToDataset", () => {
     ["an empty column name", "x,,c\n1,2,a\n", "d.csv:1:2: the header has an empty column name"],
     ["an empty label", "x,c\n1,a\n2,\n", "d.csv:3:2: the label 'c' is empty"],
     ["one class only", "x,c\n1,a\n2,a\n", "d.csv: the label column 'c' has only one class ('a')"],
-    ["a missing label column", "x,y\n1,a\n", "d.csv: --label column 'c' is not in the header (columns: 'x', 'y')"],
+    ["a missing label column", "x,y\n1,a\n", "d.csv: label column 'c' is not in the header (columns: 'x', 'y')"],
   ])("rejects %s with file, line and column", (_, text, expected) => {
     expect(() => tableToDataset(csv(text), { label: "c" })).toThrow(expected);
   });

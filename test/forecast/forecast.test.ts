@@ -566,7 +566,7 @@ describe("forecastCurve input checks", () => {
     { options: { draws: 0 }, message: /draws must be an integer/ },
     { options: { seed: 1.5 }, message: /seed must be an integer/ },
     { options: { at: [1000, -5] }, message: /projection size -5 is not a positive number/ },
-    { options: { family: "pow9" }, message: /^--family: unknown name .pow9. \(known: pow3, pow4/ },
+    { options: { family: "pow9" }, message: /^family: unknown name .pow9. \(known: pow3, pow4/ },
     {
       options: { target: 90 },
       message: /target 90 is outside the accuracy range \[0, 1\] \(give accuracy as a fraction/,

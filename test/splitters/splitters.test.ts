@@ -157,8 +157,8 @@ describe("chooseDesign", () => {
   });
 
   it.each([
-    [{ folds: 5, byRuns: true }, "--by-runs needs --group"],
-    [{ folds: 41 }, "--folds 41 is more than the 40 rows"],
+    [{ folds: 5, byRuns: true }, "byRuns: needs group"],
+    [{ folds: 41 }, "folds: 41 is more than the 40 rows"],
   ])("refuses %o", (input, text) => {
     expect(() => chooseDesign({ ...base, ...input })).toThrow(UsageError);
     expect(() => chooseDesign({ ...base, ...input })).toThrow(text);

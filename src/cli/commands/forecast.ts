@@ -54,7 +54,8 @@ export function forecastCommand(io: CliIo): Command {
 function optionalNumber(option: string, text: string | undefined): number | undefined {
   if (text === undefined) return undefined;
   const value = Number(text.trim());
-  if (text.trim() === "" || !Number.isFinite(value)) throw new UsageError(message.badNumber(option, text));
+  if (text.trim() === "" || !Number.isFinite(value))
+    throw new UsageError(message.optionProblem(option, message.badNumber(text)));
   return value;
 }
 

@@ -138,6 +138,79 @@ export const message = {
       ? `interrupted after ${done} of ${total} fits`
       : `interrupted after ${done} of ${total} fits (kept in ${checkpoint}); rerun the same command with --resume to continue`,
   outputUnder: (file: string, parent: string) => `${file}: cannot be written (${parent} is a file, not a folder)`,
+  // The forecast's options (subject: the option).
+  betweenZeroAndOne: (value: number) => `must be between 0 and 1 (exclusive), not ${value}`,
+  seedNotInteger: (seed: number) => `must be an integer, not ${seed}`,
+  drawsOutOfRange: (draws: number) => `must be an integer from 1 to 100000, not ${draws}`,
+  noProjectionSizes: () => `no training sizes to project to`,
+  projectionSizeNotPositive: (size: number) => `projection size ${size} is not a positive number`,
+  targetNotFinite: (target: number) => `must be a finite number, not ${target}`,
+  targetOutsideRange: (target: number, metric: string, range: readonly [number, number]) =>
+    `${target} is outside the ${metric} range [${range[0]}, ${range[1]}]${range[1] === 1 ? " (give accuracy as a fraction, e.g. 0.9)" : ""}`,
+  testSizeNotWhole: (testSize: number) => `must be a whole number of at least 1, not ${testSize}`,
+  // A curve given to the forecast.
+  curveNoPoints: () => `forecast: the curve has no points`,
+  metricRangeNotIncreasing: (range: readonly number[]) =>
+    `forecast: metricRange [${range.join(", ")}] is not an increasing pair of numbers`,
+  pointSizeNotPositive: (index: number, size: number) =>
+    `forecast: point ${index} has training size ${size}; sizes must be positive`,
+  pointSizeTwice: (first: number, index: number, size: number) =>
+    `forecast: points ${first} and ${index} both have training size ${size}; merge their scores`,
+  sizeWithoutScores: (size: number) => `forecast: training size ${size} has no scores`,
+  scoreNotFinite: (s: number, size: number, score: number) =>
+    `forecast: score ${s} at training size ${size} is ${score}, not a finite number`,
+  repeatOfScoreLength: (size: number, scores: number, repeats: number) =>
+    `forecast: training size ${size} has ${scores} scores but ${repeats} repeatOfScore entries`,
+  repeatNotIndex: (s: number, size: number, repeat: number) =>
+    `forecast: repeatOfScore ${s} at training size ${size} is ${repeat}, not a repeat index`,
+  tooFewSizesToFit: (sizes: number) =>
+    `forecast: the curve has ${sizes} distinct training size${sizes === 1 ? "" : "s"}; at least 3 are needed to fit a curve`,
+  noFamilyFitted: (reasons: readonly { family: string; reason: string }[]) =>
+    `forecast: no learning-curve family could be fitted (${reasons.map((l) => `${l.family}: ${l.reason}`).join("; ")})`,
+  noRefitSucceeded: (draws: number) =>
+    `forecast: none of the ${draws} bootstrap refits succeeded; the interval cannot be estimated`,
+  curveCsvColumnMissing: (file: string, name: string) =>
+    `${file}: a curve CSV needs a '${name}' column (columns: trainingSize, score, optional repeat)`,
+  curveCsvSizeNotWhole: (file: string, line: number, column: number, text: string) =>
+    `${at(file, line, column)}: trainingSize '${text}' is not a positive whole number`,
+  // Curve families and the least-squares fitter (FitError; a family's reason is shown in the forecast).
+  unknownFamily: (name: string, known: readonly string[]) =>
+    `unknown curve family "${name}"; known families: ${known.join(", ")}`,
+  familyTooFewSizes: (family: string, sizes: number, parameters: number) =>
+    `${family}: ${sizes} training sizes cannot determine ${parameters} parameters`,
+  familyPointUnusable: (family: string, size: number, value: number, weight: number) =>
+    `${family}: point at training size ${size} is not usable (value ${value}, weight ${weight})`,
+  familyUnsupportedSizes: (family: string, formula: string) =>
+    `${family}: cannot be fitted to these training sizes (${formula})`,
+  familyNotConverged: (family: string, starts: number, lastProblem: string) =>
+    `${family}: no fit converged from ${starts} starting points (${lastProblem})`,
+  lsqNoParameters: () => `least-squares fit: no parameters to fit (empty start vector)`,
+  lsqLengths: (n: number, yLength: number) => `least-squares fit: x has ${n} values but y has ${yLength}`,
+  lsqTooFewPoints: (n: number, p: number) => `least-squares fit: ${n} points cannot determine ${p} parameters`,
+  lsqPointNotFinite: (i: number, x: number, y: number) =>
+    `least-squares fit: point ${i} is not finite (x = ${x}, y = ${y})`,
+  lsqWeightCount: (weights: number, n: number) => `least-squares fit: ${weights} weights given for ${n} points`,
+  lsqBadWeight: (i: number, w: number) => `least-squares fit: weight ${i} is ${w}; weights must be finite and ≥ 0`,
+  lsqFewWeighted: (positive: number, p: number) =>
+    `least-squares fit: only ${positive} points have a positive weight, fewer than the ${p} parameters`,
+  lsqBadStart: (j: number, value: number) => `least-squares fit: start parameter ${j} is ${value}`,
+  lsqBoundsCrossed: (j: number, lower: number, upper: number) =>
+    `least-squares fit: parameter ${j} has lower bound ${lower} above upper bound ${upper}`,
+  lsqBadIterations: (value: number) => `least-squares fit: maxIterations must be a positive integer, not ${value}`,
+  lsqBadTolerance: (name: string, value: number) =>
+    `least-squares fit: tolerance ${name} must be finite and ≥ 0, not ${value}`,
+  lsqBoundsLength: (name: string, given: number, p: number) =>
+    `least-squares fit: ${name} has ${given} values for ${p} parameters`,
+  lsqBoundIsNaN: (name: string, j: number) => `least-squares fit: ${name}[${j}] is NaN`,
+  lsqModelNotFinite: (theta: readonly number[]) =>
+    `least-squares fit: the model is not finite at the start parameters [${theta.join(", ")}]`,
+  lsqJacobianNotFinite: (theta: readonly number[], j: number) =>
+    `least-squares fit: the Jacobian is not finite at [${theta.join(", ")}] (parameter ${j})`,
+  lsqNoDependence: (theta: readonly number[]) =>
+    `least-squares fit: the model does not depend on any parameter at [${theta.join(", ")}]`,
+  lsqNotFiniteResult: () => `least-squares fit: the iteration left finite values (internal error)`,
+  lsqJacobianLength: (given: number, p: number) =>
+    `least-squares fit: the Jacobian gave ${given} derivatives for ${p} parameters`,
 } as const;
 
 function clip(text: string): string {

@@ -48,10 +48,7 @@ function readCurveCsv(file: string, options: { metric?: string; higherIsBetter?:
   const table = readCsv(file);
   const column = (name: string, required: boolean): number => {
     const index = table.header.indexOf(name);
-    if (index < 0 && required)
-      throw new DataError(
-        `${file}: a curve CSV needs a '${name}' column (columns: trainingSize, score, optional repeat)`,
-      );
+    if (index < 0 && required) throw new DataError(message.curveCsvColumnMissing(file, name));
     return index;
   };
   const sizeColumn = column("trainingSize", true);
@@ -65,9 +62,7 @@ function readCurveCsv(file: string, options: { metric?: string; higherIsBetter?:
       throw new DataError(message.raggedRow(file, line, table.header.length, cells.length));
     const size = Number(cells[sizeColumn].trim());
     if (!Number.isInteger(size) || size < 1)
-      throw new DataError(
-        `${file}:${line}:${sizeColumn + 1}: trainingSize '${cells[sizeColumn]}' is not a positive whole number`,
-      );
+      throw new DataError(message.curveCsvSizeNotWhole(file, line, sizeColumn + 1, cells[sizeColumn]));
     const scoreText = cells[scoreColumn].trim();
     const score = Number(scoreText);
     if (scoreText === "" || !Number.isFinite(score))

@@ -24,6 +24,7 @@
  * regression for the other two, as pow3 does.
  */
 import { FitError } from "../errors.js";
+import { message } from "../messages.js";
 import { fitLeastSquares, type LeastSquaresResult } from "./levenbergMarquardt.js";
 
 /** Which way is better, and the metric's possible range. */
@@ -501,7 +502,10 @@ export function findCurveFamily(name: string): CurveFamily {
   const family = curveFamilies.find((f) => f.name === name);
   if (family === undefined) {
     throw new FitError(
-      `unknown curve family "${name}"; known families: ${curveFamilies.map((f) => f.name).join(", ")}`,
+      message.unknownFamily(
+        name,
+        curveFamilies.map((f) => f.name),
+      ),
     );
   }
   return family;
@@ -545,7 +549,7 @@ export function fitCurveFamily(
 ): FamilyFit {
   const p = family.parameterNames.length;
   if (points.length < p) {
-    throw new FitError(`${family.name}: ${points.length} training sizes cannot determine ${p} parameters`);
+    throw new FitError(message.familyTooFewSizes(family.name, points.length, p));
   }
   for (const point of points) {
     if (
@@ -555,13 +559,11 @@ export function fitCurveFamily(
       !(point.weight >= 0) ||
       !Number.isFinite(point.weight)
     ) {
-      throw new FitError(
-        `${family.name}: point at training size ${point.trainingSize} is not usable (value ${point.value}, weight ${point.weight})`,
-      );
+      throw new FitError(message.familyPointUnusable(family.name, point.trainingSize, point.value, point.weight));
     }
   }
   if (family.supports !== undefined && !family.supports(points)) {
-    throw new FitError(`${family.name}: cannot be fitted to these training sizes (${family.formula})`);
+    throw new FitError(message.familyUnsupportedSizes(family.name, family.formula));
   }
   const { lower, upper } = family.bounds(points, orientation);
   if (family.directFit !== undefined) {
@@ -613,7 +615,7 @@ export function fitCurveFamily(
     if (best === null || fit.residualSumOfSquares < best.residualSumOfSquares) best = fit;
   }
   if (best === null) {
-    throw new FitError(`${family.name}: no fit converged from ${starts.length} starting points (${lastProblem})`);
+    throw new FitError(message.familyNotConverged(family.name, starts.length, lastProblem));
   }
   return {
     family,

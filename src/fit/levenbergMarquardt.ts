@@ -45,6 +45,7 @@
  * returns `covariance: null` and `standardErrors: null`.
  */
 import { FitError } from "../errors.js";
+import { message } from "../messages.js";
 
 /** A model evaluated at one abscissa: `model(x, parameters)` returns the fitted y. */
 export type ModelFunction = (x: number, parameters: readonly number[]) => number;
@@ -148,53 +149,49 @@ export function resolveLeastSquaresOptions(options: LeastSquaresOptions): Resolv
   const { x, y, start } = options;
   const n = x.length;
   const p = start.length;
-  if (p === 0) throw new FitError("least-squares fit: no parameters to fit (empty start vector)");
+  if (p === 0) throw new FitError(message.lsqNoParameters());
   if (y.length !== n) {
-    throw new FitError(`least-squares fit: x has ${n} values but y has ${y.length}`);
+    throw new FitError(message.lsqLengths(n, y.length));
   }
   if (n < p) {
-    throw new FitError(`least-squares fit: ${n} points cannot determine ${p} parameters`);
+    throw new FitError(message.lsqTooFewPoints(n, p));
   }
   for (let i = 0; i < n; i++) {
     if (!Number.isFinite(x[i]) || !Number.isFinite(y[i])) {
-      throw new FitError(`least-squares fit: point ${i} is not finite (x = ${x[i]}, y = ${y[i]})`);
+      throw new FitError(message.lsqPointNotFinite(i, x[i], y[i]));
     }
   }
   const weights = new Float64Array(n).fill(1);
   if (options.weights !== undefined) {
     if (options.weights.length !== n) {
-      throw new FitError(`least-squares fit: ${options.weights.length} weights given for ${n} points`);
+      throw new FitError(message.lsqWeightCount(options.weights.length, n));
     }
     let positive = 0;
     for (let i = 0; i < n; i++) {
       const w = options.weights[i];
       if (!Number.isFinite(w) || w < 0) {
-        throw new FitError(`least-squares fit: weight ${i} is ${w}; weights must be finite and ≥ 0`);
+        throw new FitError(message.lsqBadWeight(i, w));
       }
       weights[i] = w;
       if (w > 0) positive++;
     }
     if (positive < p) {
-      throw new FitError(
-        `least-squares fit: only ${positive} points have a positive weight, fewer than the ${p} parameters`,
-      );
+      throw new FitError(message.lsqFewWeighted(positive, p));
     }
   }
   const lowerBounds = bounds(options.lowerBounds, p, -Infinity, "lowerBounds");
   const upperBounds = bounds(options.upperBounds, p, Infinity, "upperBounds");
   for (let j = 0; j < p; j++) {
     if (!Number.isFinite(start[j])) {
-      throw new FitError(`least-squares fit: start parameter ${j} is ${start[j]}`);
+      throw new FitError(message.lsqBadStart(j, start[j]));
     }
     if (!(lowerBounds[j] <= upperBounds[j])) {
-      throw new FitError(
-        `least-squares fit: parameter ${j} has lower bound ${lowerBounds[j]} above upper bound ${upperBounds[j]}`,
-      );
+      throw new FitError(message.lsqBoundsCrossed(j, lowerBounds[j], upperBounds[j]));
     }
   }
   const maxIterations = options.maxIterations ?? 1000;
   if (!Number.isInteger(maxIterations) || maxIterations < 1) {
-    throw new FitError(`least-squares fit: maxIterations must be a positive integer, not ${maxIterations}`);
+    throw new FitError(message.lsqBadIterations(maxIterations));
   }
   const tolerances: LeastSquaresTolerances = {
     relativeReduction: options.tolerances?.relativeReduction ?? 1e-18,
@@ -203,7 +200,7 @@ export function resolveLeastSquaresOptions(options: LeastSquaresOptions): Resolv
   };
   for (const [name, value] of Object.entries(tolerances)) {
     if (!Number.isFinite(value) || value < 0) {
-      throw new FitError(`least-squares fit: tolerance ${name} must be finite and ≥ 0, not ${value}`);
+      throw new FitError(message.lsqBadTolerance(name, value));
     }
   }
   return {
@@ -225,10 +222,10 @@ function bounds(given: readonly number[] | undefined, p: number, fill: number, n
   const out = new Float64Array(p).fill(fill);
   if (given === undefined) return out;
   if (given.length !== p) {
-    throw new FitError(`least-squares fit: ${name} has ${given.length} values for ${p} parameters`);
+    throw new FitError(message.lsqBoundsLength(name, given.length, p));
   }
   for (let j = 0; j < p; j++) {
-    if (Number.isNaN(given[j])) throw new FitError(`least-squares fit: ${name}[${j}] is NaN`);
+    if (Number.isNaN(given[j])) throw new FitError(message.lsqBoundIsNaN(name, j));
     out[j] = given[j];
   }
   return out;
@@ -271,7 +268,7 @@ export function fitLeastSquares(options: LeastSquaresOptions): LeastSquaresResul
   const jac = new Float64Array(n * p); // row-major: jac[i*p + j] = ∂model(xᵢ)/∂θⱼ
   let rss = evaluate(model, x, y, weights, theta, residual);
   if (!Number.isFinite(rss)) {
-    throw new FitError(`least-squares fit: the model is not finite at the start parameters [${theta.join(", ")}]`);
+    throw new FitError(message.lsqModelNotFinite(theta));
   }
   let weightedSquaresOfY = 0;
   for (let i = 0; i < n; i++) weightedSquaresOfY += weights[i] * y[i] * y[i];
@@ -294,13 +291,13 @@ export function fitLeastSquares(options: LeastSquaresOptions): LeastSquaresResul
     for (let j = 0; j < p; j++) {
       const diagonal = normal[j * p + j];
       if (!Number.isFinite(diagonal) || !Number.isFinite(gradient[j])) {
-        throw new FitError(`least-squares fit: the Jacobian is not finite at [${theta.join(", ")}] (parameter ${j})`);
+        throw new FitError(message.lsqJacobianNotFinite(theta, j));
       }
       scaling[j] = Math.max(scaling[j], diagonal);
       largestScale = Math.max(largestScale, scaling[j]);
     }
     if (largestScale === 0) {
-      throw new FitError(`least-squares fit: the model does not depend on any parameter at [${theta.join(", ")}]`);
+      throw new FitError(message.lsqNoDependence(theta));
     }
 
     if (rss <= exactFitLevel) {
@@ -451,7 +448,7 @@ export function fitLeastSquares(options: LeastSquaresOptions): LeastSquaresResul
     }
   }
   if (theta.some((t) => !Number.isFinite(t)) || !Number.isFinite(rss)) {
-    throw new FitError(`least-squares fit: the iteration left finite values (internal error)`);
+    throw new FitError(message.lsqNotFiniteResult());
   }
   return {
     parameters: theta,
@@ -493,7 +490,7 @@ function computeJacobian(o: ResolvedOptions, theta: number[], typicalScale: numb
     for (let i = 0; i < n; i++) {
       const row = o.jacobian(o.x[i], theta);
       if (row.length !== p) {
-        throw new FitError(`least-squares fit: the Jacobian gave ${row.length} derivatives for ${p} parameters`);
+        throw new FitError(message.lsqJacobianLength(row.length, p));
       }
       for (let j = 0; j < p; j++) jac[i * p + j] = row[j];
     }

@@ -35,6 +35,7 @@
  * residual degree of freedom. With 4 sizes or fewer there is no backtest: pow3 alone is fitted.
  */
 import { FitError } from "../errors.js";
+import { message } from "../messages.js";
 import {
   curveFamilies,
   fitCurveFamily,
@@ -144,9 +145,7 @@ export function assessFamilies(
     kept.push({ family, fit, errors });
   }
   if (kept.length === 0) {
-    throw new FitError(
-      `forecast: no learning-curve family could be fitted (${leftOut.map((l) => `${l.family}: ${l.reason}`).join("; ")})`,
-    );
+    throw new FitError(message.noFamilyFitted(leftOut));
   }
 
   // Weights ∝ 1 / max(MSE, noise floor); a family without a backtest (forced, or the pow3 fallback)

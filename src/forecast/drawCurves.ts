@@ -21,6 +21,7 @@
  * Deterministic for a seed: draw j uses the stream `StreamPurpose.curveDraw` (j) for its repeats and normals.
  */
 import { FitError } from "../errors.js";
+import { message } from "../messages.js";
 import {
   fitCurveFamily,
   orientedRange,
@@ -80,9 +81,7 @@ export function drawCurves(
     result.curves.push({ family: assessed.family, parameters: refit.parameters, shift, extrapolation });
   }
   if (result.curves.length === 0) {
-    throw new FitError(
-      `forecast: none of the ${options.draws} bootstrap refits succeeded; the interval cannot be estimated`,
-    );
+    throw new FitError(message.noRefitSucceeded(options.draws));
   }
   return result;
 }

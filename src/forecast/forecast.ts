@@ -85,24 +85,24 @@ const singleModelDrawsPerCurve = 5;
 export function resolveForecastOptions(curve: CurveFile, options: ForecastOptions = {}): ResolvedForecastOptions {
   const level = options.level ?? 0.8;
   if (!(level > 0 && level < 1)) {
-    throw new UsageError(`forecast: level must be between 0 and 1 (exclusive), not ${level}`);
+    throw new UsageError(message.betweenZeroAndOne(level), { option: "level" });
   }
   const seed = options.seed ?? 1;
   if (!Number.isSafeInteger(seed)) {
-    throw new UsageError(`forecast: seed must be an integer, not ${seed}`);
+    throw new UsageError(message.seedNotInteger(seed), { option: "seed" });
   }
   const draws = options.draws ?? 200;
   if (!Number.isInteger(draws) || draws < 1 || draws > 100_000) {
-    throw new UsageError(`forecast: draws must be an integer from 1 to 100000, not ${draws}`);
+    throw new UsageError(message.drawsOutOfRange(draws), { option: "draws" });
   }
   const knownRows = Number.isFinite(curve.rows) && curve.rows > 0;
   const largestMeasured = Math.max(...curve.points.map((p) => p.trainingSize));
   let at: number[];
   if (options.at !== undefined) {
-    if (options.at.length === 0) throw new UsageError("forecast: no training sizes to project to");
+    if (options.at.length === 0) throw new UsageError(message.noProjectionSizes(), { option: "at" });
     for (const size of options.at) {
       if (!(size > 0) || !Number.isFinite(size)) {
-        throw new UsageError(`forecast: projection size ${size} is not a positive number`);
+        throw new UsageError(message.projectionSizeNotPositive(size), { option: "at" });
       }
     }
     at = options.at.slice();
@@ -115,21 +115,19 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
   const family = options.family === undefined ? undefined : familyOption(options.family);
   const target = options.target;
   if (target !== undefined) {
-    if (!Number.isFinite(target)) throw new UsageError(`forecast: target must be a finite number, not ${target}`);
+    if (!Number.isFinite(target)) throw new UsageError(message.targetNotFinite(target), { option: "target" });
     const range = curve.metricRange;
     if (range !== undefined && !(target >= range[0] && target <= range[1])) {
-      throw new UsageError(
-        `forecast: target ${target} is outside the ${curve.metric} range [${range[0]}, ${range[1]}]${range[1] === 1 ? " (give accuracy as a fraction, e.g. 0.9)" : ""}`,
-      );
+      throw new UsageError(message.targetOutsideRange(target, curve.metric, range), { option: "target" });
     }
   }
   const confidence = options.confidence ?? 0.8;
   if (!(confidence > 0 && confidence < 1)) {
-    throw new UsageError(`forecast: confidence must be between 0 and 1 (exclusive), not ${confidence}`);
+    throw new UsageError(message.betweenZeroAndOne(confidence), { option: "confidence" });
   }
   const testSize = options.testSize ?? (knownRows ? curve.rows : largestMeasured);
   if (!(Number.isInteger(testSize) && testSize >= 1)) {
-    throw new UsageError(`forecast: test size must be a whole number of at least 1, not ${testSize}`);
+    throw new UsageError(message.testSizeNotWhole(testSize), { option: "testSize" });
   }
   return { at, level, seed, draws, family, target, confidence, testSize };
 }

@@ -5,6 +5,7 @@
  */
 import type { CurveFile, CurvePoint } from "../curve/curveFile.js";
 import { FitError } from "../errors.js";
+import { message } from "../messages.js";
 import { orientationSign, type Orientation, type OrientedPoint } from "../fit/families.js";
 import type { MeasuredSummary } from "./forecastFile.js";
 import { quantileSorted } from "./quantile.js";
@@ -57,50 +58,44 @@ export function measuredCurve(curve: CurveFile): MeasuredCurve {
 
 /** Checks the points and returns them sorted by training size; throws FitError. */
 function validatedPoints(curve: CurveFile): CurvePoint[] {
-  if (!Array.isArray(curve.points)) throw new FitError("forecast: the curve has no points");
+  if (!Array.isArray(curve.points)) throw new FitError(message.curveNoPoints());
   const range = curve.metricRange;
   // An end may be infinite (log loss: [0, Infinity]); NaN or a reversed pair is an error.
   if (range !== undefined && !(range[0] < range[1])) {
-    throw new FitError(`forecast: metricRange [${range.join(", ")}] is not an increasing pair of numbers`);
+    throw new FitError(message.metricRangeNotIncreasing(range));
   }
 
   const seen = new Map<number, number>();
   curve.points.forEach((point, index) => {
     const size = point.trainingSize;
     if (!(size > 0) || !Number.isFinite(size)) {
-      throw new FitError(`forecast: point ${index} has training size ${size}; sizes must be positive`);
+      throw new FitError(message.pointSizeNotPositive(index, size));
     }
     if (seen.has(size)) {
-      throw new FitError(
-        `forecast: points ${seen.get(size)} and ${index} both have training size ${size}; merge their scores`,
-      );
+      throw new FitError(message.pointSizeTwice(seen.get(size)!, index, size));
     }
     seen.set(size, index);
     if (point.scores.length === 0) {
-      throw new FitError(`forecast: training size ${size} has no scores`);
+      throw new FitError(message.sizeWithoutScores(size));
     }
     point.scores.forEach((score, s) => {
       if (!Number.isFinite(score)) {
-        throw new FitError(`forecast: score ${s} at training size ${size} is ${score}, not a finite number`);
+        throw new FitError(message.scoreNotFinite(s, size, score));
       }
     });
     if (point.repeatOfScore !== undefined) {
       if (point.repeatOfScore.length !== point.scores.length) {
-        throw new FitError(
-          `forecast: training size ${size} has ${point.scores.length} scores but ${point.repeatOfScore.length} repeatOfScore entries`,
-        );
+        throw new FitError(message.repeatOfScoreLength(size, point.scores.length, point.repeatOfScore.length));
       }
       point.repeatOfScore.forEach((repeat, s) => {
         if (!Number.isInteger(repeat) || repeat < 0) {
-          throw new FitError(`forecast: repeatOfScore ${s} at training size ${size} is ${repeat}, not a repeat index`);
+          throw new FitError(message.repeatNotIndex(s, size, repeat));
         }
       });
     }
   });
   if (seen.size < 3) {
-    throw new FitError(
-      `forecast: the curve has ${seen.size} distinct training size${seen.size === 1 ? "" : "s"}; at least 3 are needed to fit a curve`,
-    );
+    throw new FitError(message.tooFewSizesToFit(seen.size));
   }
   return curve.points.slice().sort((p, q) => p.trainingSize - q.trainingSize);
 }

@@ -66,7 +66,7 @@ describe("headroom forecast options", () => {
       /^headroom: --family: unknown name .pow9. \(known: pow3, pow4, mmf4, wbl4, exp3, ilog2, last\)\n$/,
     ],
     [["--target", "high"], /^headroom: --target: 'high' is not a number$/m],
-    [["--target", "85"], /^headroom: forecast: target 85 is outside the score range \[0, 1\]/],
+    [["--target", "85"], /^headroom: --target: 85 is outside the score range \[0, 1\]/],
     [["--confidence", "1.5"], /^headroom: --confidence: '1.5' is not a probability between 0 and 1$/m],
     [["--test-size", "0"], /^headroom: --test-size: '0' is not a whole number of at least 1$/m],
   ])("%j gives one line and the usage exit code", async (extra, line) => {

@@ -109,11 +109,11 @@ describe("measureCurve", () => {
   });
 
   it.each([
-    [{ folds: 1 }, UsageError, "--folds: '1' is neither a whole number of at least 2 nor 'loo'"],
-    [{ repeats: 0 }, UsageError, "--repeats: '0' is not a whole number of at least 1"],
+    [{ folds: 1 }, UsageError, "folds: '1' is neither a whole number of at least 2 nor 'loo'"],
+    [{ repeats: 0 }, UsageError, "repeats: '0' is not a whole number of at least 1"],
     [{ trainingSizes: [10, 81] }, UsageError, "training size 81 is larger than the smallest training pool (80 rows"],
-    [{ learner: "oracle" }, UsageError, "--learner: unknown name 'oracle'"],
-    [{ folds: 51 }, DataError, "class 'a' has 50 rows, fewer than --folds 51"],
+    [{ learner: "oracle" }, UsageError, "learner: unknown name 'oracle'"],
+    [{ folds: 51 }, DataError, "class 'a' has 50 rows, fewer than folds 51"],
   ])("rejects %o", async (options, errorClass, text) => {
     const attempt = measureCurve(dataset(), "fake.csv", { learner: "fake", ...options });
     await expect(attempt).rejects.toThrow(errorClass);

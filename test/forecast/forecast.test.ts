@@ -562,18 +562,18 @@ describe("forecastCurve input checks", () => {
   });
 
   it.each([
-    { options: { level: 1 }, message: /level must be between 0 and 1/ },
-    { options: { draws: 0 }, message: /draws must be an integer/ },
-    { options: { seed: 1.5 }, message: /seed must be an integer/ },
-    { options: { at: [1000, -5] }, message: /projection size -5 is not a positive number/ },
+    { options: { level: 1 }, message: /^level: must be between 0 and 1/ },
+    { options: { draws: 0 }, message: /^draws: must be an integer/ },
+    { options: { seed: 1.5 }, message: /^seed: must be an integer/ },
+    { options: { at: [1000, -5] }, message: /^at: projection size -5 is not a positive number/ },
     { options: { family: "pow9" }, message: /^family: unknown name .pow9. \(known: pow3, pow4/ },
     {
       options: { target: 90 },
-      message: /target 90 is outside the accuracy range \[0, 1\] \(give accuracy as a fraction/,
+      message: /^target: 90 is outside the accuracy range \[0, 1\] \(give accuracy as a fraction/,
     },
-    { options: { target: 0.9, confidence: 1 }, message: /confidence must be between 0 and 1/ },
-    { options: { testSize: 0 }, message: /test size must be a whole number of at least 1, not 0/ },
-    { options: { testSize: 2.5 }, message: /test size must be a whole number of at least 1, not 2.5/ },
+    { options: { target: 0.9, confidence: 1 }, message: /^confidence: must be between 0 and 1/ },
+    { options: { testSize: 0 }, message: /^testSize: must be a whole number of at least 1, not 0/ },
+    { options: { testSize: 2.5 }, message: /^testSize: must be a whole number of at least 1, not 2.5/ },
   ])("throws UsageError for options $options", ({ options, message }) => {
     const curve = curveOf(exactPoints(accuracyTruth));
     expect(() => forecastCurve(curve, options)).toThrow(UsageError);

@@ -211,6 +211,45 @@ export const message = {
   lsqNotFiniteResult: () => `least-squares fit: the iteration left finite values (internal error)`,
   lsqJacobianLength: (given: number, p: number) =>
     `least-squares fit: the Jacobian gave ${given} derivatives for ${p} parameters`,
+  // A learner's settings and training input (from the library, a tuning grid or a study).
+  unknownSetting: (learner: string, name: string, known: readonly string[]) =>
+    `${learner}: unknown setting '${name}' (known: ${known.join(", ")})`,
+  settingNotPositive: (learner: string, name: string, value: number) =>
+    `${learner}: ${name} must be a positive finite number, got ${value}`,
+  settingNegative: (learner: string, name: string, value: number) =>
+    `${learner}: ${name} must be a finite number of at least 0, got ${value}`,
+  settingNotWhole: (learner: string, name: string, value: number, min: number) =>
+    `${learner}: ${name} must be a whole number of at least ${min}, got ${value}`,
+  settingNotFraction: (learner: string, name: string, value: number) =>
+    `${learner}: ${name} must be a number in [0, 1), got ${value}`,
+  shrinkageOutOfRange: (learner: string, value: number) =>
+    `${learner}: shrinkage must be a number in [0, 1] (or NaN for Ledoit–Wolf), got ${value}`,
+  classCountNotWhole: (learner: string, classCount: number) =>
+    `${learner}: classCount must be a whole number of at least 1, got ${classCount}`,
+  labelCount: (learner: string, labels: number, rows: number) =>
+    `${learner}: ${labels} labels for ${rows} training rows`,
+  noTrainingRows: (learner: string) => `${learner}: no training rows`,
+  targetCount: (learner: string, targets: number, rows: number) =>
+    `${learner}: ${targets} targets for ${rows} training rows`,
+  trainingTargetNotFinite: (learner: string, row: number, target: number) =>
+    `${learner}: training row ${row} has target ${target}, not a finite number`,
+  labelOutOfRange: (learner: string, row: number, label: number, classCount: number) =>
+    `${learner}: training row ${row} has label ${label}, outside 0 .. ${classCount - 1}`,
+  newtonStepFailed: () => `logistic: the Newton step could not be solved (the Hessian is not finite)`,
+  objectiveNotFinite: () => `logistic: the objective is not finite at the start`,
+  tooLargeForKernel: (rows: number, columns: number) =>
+    `logistic: ${rows} rows × ${columns} columns are too many for one fit's memory (4 GiB)`,
+  nothingToPreprocess: () => `preprocessing: no training rows to fit the imputation and scaling on`,
+  featureNotFinite: (role: string, row: number, column: number, value: number) =>
+    `preprocessing: ${role} row ${row + 1}, feature column ${column + 1} is ${value}; only NaN may mark a missing value`,
+  shapeNotWhole: (role: string, rows: number, columns: number) =>
+    `preprocessing: ${role} shape ${rows} rows × ${columns} columns is not a pair of whole numbers`,
+  featureCount: (stage: string, role: string, values: number, rows: number, columns: number) =>
+    `${stage}: ${role} features hold ${values} values, expected ${rows} rows × ${columns} columns`,
+  categoryListCount: (lists: number, columns: number) =>
+    `encoding: ${lists} category lists for ${columns} feature columns`,
+  notCategoryIndex: (role: string, row: number, column: number, value: number, count: number) =>
+    `encoding: ${role} row ${row + 1}, feature column ${column + 1} holds ${value}, not a category index 0 .. ${count - 1}`,
 } as const;
 
 function clip(text: string): string {

@@ -17,6 +17,7 @@
  * fits an encoder on some rows and applies it to others with these rules.
  */
 import { DataError } from "../errors.js";
+import { message } from "../messages.js";
 
 /** A fitted one-hot encoding: maps `rows × columns` raw features to `rows × outputColumns`. */
 export interface CategoryEncoder {
@@ -60,12 +61,9 @@ export function fitCategoryEncoder(
   columns: number,
   categories: readonly (readonly string[] | null)[],
 ): CategoryEncoder {
-  if (categories.length !== columns)
-    throw new DataError(`encoding: ${categories.length} category lists for ${columns} feature columns`);
+  if (categories.length !== columns) throw new DataError(message.categoryListCount(categories.length, columns));
   if (features.length !== rows * columns)
-    throw new DataError(
-      `encoding: training features hold ${features.length} values, expected ${rows} rows × ${columns} columns`,
-    );
+    throw new DataError(message.featureCount("encoding", "training", features.length, rows, columns));
   const sourceColumns: number[] = [];
   const indicatedCategories: number[] = [];
   const fillCategories = new Int32Array(columns).fill(-1);
@@ -137,9 +135,7 @@ class FittedEncoder implements CategoryEncoder {
   transform(features: Float64Array, rows: number): Float64Array {
     const { columns, outputColumns, firstOutput, positions, fillCategories, categoryCounts } = this;
     if (!Number.isInteger(rows) || rows < 0 || features.length !== rows * columns)
-      throw new DataError(
-        `encoding: prediction features hold ${features.length} values, expected ${rows} rows × ${columns} columns`,
-      );
+      throw new DataError(message.featureCount("encoding", "prediction", features.length, rows, columns));
     const out = new Float64Array(rows * outputColumns);
     for (let j = 0; j < columns; j++) {
       const first = firstOutput[j];
@@ -164,8 +160,6 @@ class FittedEncoder implements CategoryEncoder {
 /** The category index `v`, checked to be a whole number in 0 .. count − 1. */
 function checkCategory(v: number, count: number, role: string, row: number, column: number): number {
   if (!(Number.isInteger(v) && v >= 0 && v < count))
-    throw new DataError(
-      `encoding: ${role} row ${row + 1}, feature column ${column + 1} holds ${v}, not a category index 0 .. ${count - 1}`,
-    );
+    throw new DataError(message.notCategoryIndex(role, row, column, v, count));
   return v;
 }

@@ -31,6 +31,7 @@ import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames } from "./settings.js";
 import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
 import { UsageError } from "../errors.js";
+import { message } from "../messages.js";
 
 export interface LdaOptions {
   /**
@@ -51,7 +52,7 @@ const name = "lda";
 export function resolveLdaOptions(options: LdaOptions = {}): ResolvedLdaOptions {
   const shrinkage = options.shrinkage ?? NaN;
   if (!Number.isNaN(shrinkage) && !(shrinkage >= 0 && shrinkage <= 1))
-    throw new UsageError(`${name}: shrinkage must be a number in [0, 1] (or NaN for Ledoit–Wolf), got ${shrinkage}`);
+    throw new UsageError(message.shrinkageOutOfRange(name, shrinkage));
   return { shrinkage };
 }
 

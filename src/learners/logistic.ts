@@ -43,6 +43,7 @@
  * multinomial sums in WebAssembly).
  */
 import { DataError, FitError, UsageError } from "../errors.js";
+import { message } from "../messages.js";
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
@@ -83,13 +84,13 @@ export function resolveLogisticOptions(options: LogisticOptions = {}): ResolvedL
   const tolerance = options.tolerance ?? 1e-4;
   const relativeDecrease = options.relativeDecrease ?? scipyRelativeDecrease;
   const maxIterations = options.maxIterations ?? 1000;
-  if (!(Number.isFinite(C) && C > 0)) throw new UsageError(`logistic: C must be a positive finite number, got ${C}`);
+  if (!(Number.isFinite(C) && C > 0)) throw new UsageError(message.settingNotPositive("logistic", "C", C));
   if (!(Number.isFinite(tolerance) && tolerance > 0))
-    throw new UsageError(`logistic: tolerance must be a positive finite number, got ${tolerance}`);
+    throw new UsageError(message.settingNotPositive("logistic", "tolerance", tolerance));
   if (!(Number.isFinite(relativeDecrease) && relativeDecrease >= 0 && relativeDecrease < 1))
-    throw new UsageError(`logistic: relativeDecrease must be a number in [0, 1), got ${relativeDecrease}`);
+    throw new UsageError(message.settingNotFraction("logistic", "relativeDecrease", relativeDecrease));
   if (!(Number.isInteger(maxIterations) && maxIterations >= 1))
-    throw new UsageError(`logistic: maxIterations must be a whole number of at least 1, got ${maxIterations}`);
+    throw new UsageError(message.settingNotWhole("logistic", "maxIterations", maxIterations, 1));
   return { C, tolerance, relativeDecrease, maxIterations };
 }
 
@@ -122,14 +123,14 @@ export class LogisticRegression implements Learner {
   fit(training: TrainingSet, _random?: RandomStream, previous?: FittedModel): FittedLogistic {
     const { features, rows, columns, labels, classCount } = training;
     if (!(Number.isInteger(classCount) && classCount >= 1))
-      throw new DataError(`logistic: classCount must be a whole number of at least 1, got ${classCount}`);
-    if (labels.length !== rows) throw new DataError(`logistic: ${labels.length} labels for ${rows} training rows`);
-    if (rows < 1) throw new DataError("logistic: no training rows");
+      throw new DataError(message.classCountNotWhole("logistic", classCount));
+    if (labels.length !== rows) throw new DataError(message.labelCount("logistic", labels.length, rows));
+    if (rows < 1) throw new DataError(message.noTrainingRows("logistic"));
     const counts = new Int32Array(classCount);
     for (let i = 0; i < rows; i++) {
       const label = labels[i];
       if (!(label >= 0 && label < classCount))
-        throw new DataError(`logistic: training row ${i + 1} has label ${label}, outside 0 .. ${classCount - 1}`);
+        throw new DataError(message.labelOutOfRange("logistic", i + 1, label, classCount));
       counts[label]++;
     }
     const preprocessor = fitPreprocessor(features, rows, columns, { categories: training.categories });
@@ -523,7 +524,7 @@ function solveSymmetricPositive(a: Float64Array, m: number, b: Float64Array, x: 
     }
     damping = damping === 0 ? 1e-12 * Math.max(largestDiagonal, 1e-300) : damping * 10;
   }
-  throw new FitError("logistic: the Newton step could not be solved (the Hessian is not finite)");
+  throw new FitError(message.newtonStepFailed());
 }
 
 /** Cholesky factor of A + damping·I into `l` (lower triangle); false when a pivot is not positive. */
@@ -674,7 +675,7 @@ function minimizeLbfgs(
   let stored = 0; // pairs held
   let newest = -1; // slot of the newest pair in the ring
   let f = objective.evaluate(x, gradient);
-  if (!Number.isFinite(f)) throw new FitError("logistic: the objective is not finite at the start");
+  if (!Number.isFinite(f)) throw new FitError(message.objectiveNotFinite());
   let iterations = 0;
   let converged = false;
   let justReset = false;

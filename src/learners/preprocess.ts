@@ -23,6 +23,7 @@
  * Written with plain Float64Array loops: ml-matrix element access is several times slower.
  */
 import { DataError } from "../errors.js";
+import { message } from "../messages.js";
 import { fitCategoryEncoder, hasCategories, type CategoryEncoder } from "./encode.js";
 import { scratchDoubles } from "./scratch.js";
 
@@ -79,7 +80,7 @@ export function fitPreprocessor(
   options: PreprocessOptions = {},
 ): Preprocessor {
   checkShape(features, rows, columns, "training");
-  if (rows < 1) throw new DataError("preprocessing: no training rows to fit the imputation and scaling on");
+  if (rows < 1) throw new DataError(message.nothingToPreprocess());
   const standardize = options.standardize ?? true;
   const encoder = hasCategories(options.categories)
     ? fitCategoryEncoder(features, rows, columns, options.categories!)
@@ -97,7 +98,9 @@ export function fitPreprocessor(
     const count = presentValues(values, rows, width, j, present);
     if (count < 0) {
       const row = -1 - count;
-      throw new DataError(notFinite("training", row, encoder ? encoder.sourceColumns[j] : j, values[row * width + j]));
+      throw new DataError(
+        message.featureNotFinite("training", row, encoder ? encoder.sourceColumns[j] : j, values[row * width + j]),
+      );
     }
     imputedValues[j] = count > 0 ? medianInPlace(present, count) : 0;
     if (standardize) fitScale(values, rows, width, j, imputedValues, means, scales);
@@ -190,7 +193,12 @@ class FittedPreprocessor implements Preprocessor {
       const j = standardizeRow(input, out, i * outputColumns, imputedValues, means, scales);
       if (j >= 0)
         throw new DataError(
-          notFinite("prediction", i, encoder ? encoder.sourceColumns[j] : j, input[i * outputColumns + j]),
+          message.featureNotFinite(
+            "prediction",
+            i,
+            encoder ? encoder.sourceColumns[j] : j,
+            input[i * outputColumns + j],
+          ),
         );
     }
     return out;
@@ -281,15 +289,7 @@ function zeroSignAsSorted(values: Float64Array, count: number, rank: number, val
 
 function checkShape(features: Float64Array, rows: number, columns: number, role: string): void {
   if (!Number.isInteger(rows) || rows < 0 || !Number.isInteger(columns) || columns < 0)
-    throw new DataError(
-      `preprocessing: ${role} shape ${rows} rows × ${columns} columns is not a pair of whole numbers`,
-    );
+    throw new DataError(message.shapeNotWhole(role, rows, columns));
   if (features.length !== rows * columns)
-    throw new DataError(
-      `preprocessing: ${role} features hold ${features.length} values, expected ${rows} rows × ${columns} columns`,
-    );
-}
-
-function notFinite(role: string, row: number, column: number, value: number): string {
-  return `preprocessing: ${role} row ${row + 1}, feature column ${column + 1} is ${value}; only NaN may mark a missing value`;
+    throw new DataError(message.featureCount("preprocessing", role, features.length, rows, columns));
 }

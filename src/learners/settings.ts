@@ -4,6 +4,7 @@
  * messages name the learner and the setting.
  */
 import { UsageError } from "../errors.js";
+import { message } from "../messages.js";
 import type { LearnerSettings } from "./learner.js";
 
 /**
@@ -12,8 +13,7 @@ import type { LearnerSettings } from "./learner.js";
  */
 export function checkSettingNames(learner: string, settings: LearnerSettings, known: readonly string[]): void {
   for (const name of Object.keys(settings)) {
-    if (!known.includes(name))
-      throw new UsageError(`${learner}: unknown setting '${name}' (known: ${known.join(", ")})`);
+    if (!known.includes(name)) throw new UsageError(message.unknownSetting(learner, name, known));
   }
 }
 
@@ -22,8 +22,7 @@ export function checkSettingNames(learner: string, settings: LearnerSettings, kn
  * @throws UsageError naming the learner and the setting.
  */
 export function positive(learner: string, name: string, value: number): number {
-  if (!(Number.isFinite(value) && value > 0))
-    throw new UsageError(`${learner}: ${name} must be a positive finite number, got ${value}`);
+  if (!(Number.isFinite(value) && value > 0)) throw new UsageError(message.settingNotPositive(learner, name, value));
   return value;
 }
 
@@ -32,8 +31,7 @@ export function positive(learner: string, name: string, value: number): number {
  * @throws UsageError naming the learner and the setting.
  */
 export function nonNegative(learner: string, name: string, value: number): number {
-  if (!(Number.isFinite(value) && value >= 0))
-    throw new UsageError(`${learner}: ${name} must be a finite number of at least 0, got ${value}`);
+  if (!(Number.isFinite(value) && value >= 0)) throw new UsageError(message.settingNegative(learner, name, value));
   return value;
 }
 
@@ -43,6 +41,6 @@ export function nonNegative(learner: string, name: string, value: number): numbe
  */
 export function wholeNumber(learner: string, name: string, value: number, min: number): number {
   if (!(Number.isInteger(value) && value >= min))
-    throw new UsageError(`${learner}: ${name} must be a whole number of at least ${min}, got ${value}`);
+    throw new UsageError(message.settingNotWhole(learner, name, value, min));
   return value;
 }

@@ -31,6 +31,7 @@
  * The binary format follows the WebAssembly Core Specification 2.0, chapter 5 ("Binary Format").
  */
 import { FitError } from "../errors.js";
+import { message } from "../messages.js";
 
 /** The parts of the WebAssembly JavaScript interface used here (the TypeScript library in use lacks them). */
 interface WebAssemblyApi {
@@ -125,8 +126,7 @@ export class SoftmaxLoss {
     const scoresAt = gradientAt + gradientBytes;
     const scratchAt = scoresAt + scoreBytes;
     const end = scratchAt + 3 * blockRows * 8;
-    if (end > 65536 * pageBytes)
-      throw new FitError(`logistic: ${rows} rows × ${columns} columns are too many for one fit's memory (4 GiB)`);
+    if (end > 65536 * pageBytes) throw new FitError(message.tooLargeForKernel(rows, columns));
     this.offsets = {
       features: 0,
       labels: labelsAt,

@@ -5,6 +5,7 @@
  * probability 0).
  */
 import { DataError } from "../errors.js";
+import { message } from "../messages.js";
 import type { RegressionTrainingSet, TrainingSet } from "./learner.js";
 
 /** The classes a training set holds. */
@@ -27,13 +28,13 @@ export function summarizeClasses(learner: string, training: TrainingSet): ClassS
   const { features, rows, columns, labels, classCount } = training;
   checkShape(learner, features, rows, columns);
   if (!(Number.isInteger(classCount) && classCount >= 1))
-    throw new DataError(`${learner}: classCount must be a whole number of at least 1, got ${classCount}`);
-  if (labels.length !== rows) throw new DataError(`${learner}: ${labels.length} labels for ${rows} training rows`);
+    throw new DataError(message.classCountNotWhole(learner, classCount));
+  if (labels.length !== rows) throw new DataError(message.labelCount(learner, labels.length, rows));
   const counts = new Int32Array(classCount);
   for (let i = 0; i < rows; i++) {
     const label = labels[i];
     if (!(label >= 0 && label < classCount))
-      throw new DataError(`${learner}: training row ${i + 1} has label ${label}, outside 0 .. ${classCount - 1}`);
+      throw new DataError(message.labelOutOfRange(learner, i + 1, label, classCount));
     counts[label]++;
   }
   const present: number[] = [];
@@ -57,19 +58,16 @@ export function summarizeClasses(learner: string, training: TrainingSet): ClassS
 export function checkRegressionSet(learner: string, training: RegressionTrainingSet): void {
   const { features, rows, columns, targets } = training;
   checkShape(learner, features, rows, columns);
-  if (targets.length !== rows) throw new DataError(`${learner}: ${targets.length} targets for ${rows} training rows`);
+  if (targets.length !== rows) throw new DataError(message.targetCount(learner, targets.length, rows));
   for (let i = 0; i < rows; i++) {
-    if (!Number.isFinite(targets[i]))
-      throw new DataError(`${learner}: training row ${i + 1} has target ${targets[i]}, not a finite number`);
+    if (!Number.isFinite(targets[i])) throw new DataError(message.trainingTargetNotFinite(learner, i + 1, targets[i]));
   }
 }
 
 function checkShape(learner: string, features: Float64Array, rows: number, columns: number): void {
-  if (!(Number.isInteger(rows) && rows >= 1)) throw new DataError(`${learner}: no training rows`);
+  if (!(Number.isInteger(rows) && rows >= 1)) throw new DataError(message.noTrainingRows(learner));
   if (!(Number.isInteger(columns) && columns >= 0 && features.length === rows * columns))
-    throw new DataError(
-      `${learner}: training features hold ${features.length} values, expected ${rows} rows × ${columns} columns`,
-    );
+    throw new DataError(message.featureCount(learner, "training", features.length, rows, columns));
 }
 
 /**

@@ -33,10 +33,10 @@
  *    actual and predicted reductions are below `relativeReduction` × RSS and the step is below
  *    `relativeStep` relative to the parameters.
  *
- * Why hand-written: ml-levenberg-marquardt 5.1.0 ignores non-uniform weights, always runs
- * `maxIterations` with no convergence test and returns no covariance (measured; see the project's
- * package notes). This file has no dependency and reproduces the NIST StRD
- * certified values (test/fit/levenbergMarquardt.test.ts).
+ * Why hand-written: ml-levenberg-marquardt 5.1.0 ignores non-uniform weights (every weighting left
+ * the fit at its start when tried), always runs `maxIterations` with no convergence test and returns
+ * no covariance. This file has no dependency and reproduces the NIST StRD certified values
+ * (test/fit/levenbergMarquardt.test.ts).
  *
  * Throws `FitError` for inconsistent input (lengths, non-finite values, bounds), for a model that is
  * not finite at the start, for a Jacobian that is not finite, and when no parameter influences the

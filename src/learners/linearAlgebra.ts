@@ -3,8 +3,8 @@
  * of a symmetric positive-definite matrix and its solves (ridge regression, linear discriminant
  * analysis), and a minimum-norm solve by symmetric eigendecomposition for the rare singular case.
  *
- * Written by hand: ml-matrix's element access is about four times slower than raw Float64Array loops
- * (measured for the project's package notes), and its Cholesky wants an exactly symmetric matrix.
+ * Written by hand: ml-matrix 6.15.1's element access is slower than raw Float64Array loops, and its
+ * Cholesky wants an exactly symmetric matrix.
  */
 
 /**

@@ -15,8 +15,8 @@
  * training rows (scikit-learn would divide by zero) ε is varSmoothing itself, the variance of a
  * standardized column being 1. Classes absent from the training rows get probability 0.
  *
- * Written by hand because the npm package ml-naivebayes reads only the first two features (measured
- * for the project's package notes); the fit is two passes over the rows on raw Float64Arrays.
+ * Written by hand because the npm package ml-naivebayes reads only the first two features (found when
+ * tried); the fit is two passes over the rows on raw Float64Arrays.
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";

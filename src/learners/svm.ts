@@ -26,8 +26,8 @@
  * score of an SVM measure this fixed mapping and should be read with that in mind.
  * Classes absent from the training rows get probability 0; with one class present, probability 1.
  *
- * Written by hand because the npm package ml-svm fails to converge on 2000 × 60 (measured for the
- * project's package notes); the dual coordinate descent runs on raw Float64Arrays.
+ * Written by hand because the npm package ml-svm fails to converge on 2000 × 60 rows × columns
+ * when tried; the dual coordinate descent runs on raw Float64Arrays.
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";

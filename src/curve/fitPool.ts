@@ -9,11 +9,10 @@
  *
  * The main thread starts fitting at once, and starts the worker threads only once the tasks left
  * besides its next one, at the pace of its last task, would take it a second or more (`poolSettings`):
- * a worker thread takes 0.1 to 0.3 s to start and load its modules, and its first task runs several
- * times slower than later ones while V8 compiles its code, all on a processor the main thread could
- * use (measured on a shared 2-core machine, a small curve, of breast cancer or 5,000 rows × 20
- * features, took a fifth longer with a worker than without). So `workers` is the most threads a run
- * uses.
+ * a worker thread takes some tenths of a second to start and load its modules, and its first task
+ * runs several times slower than later ones while V8 compiles its code, all on a processor the main
+ * thread could use, so a small curve finishes sooner without workers (README, "Speed"). So `workers`
+ * is the most threads a run uses.
  *
  * Once every task is claimed, the main thread may run again a task a worker thread is still fitting;
  * the first of the two to finish counts, since a task's scores are the same wherever it runs. A

@@ -111,7 +111,7 @@ export { chartSvg, chartPng, findChartFonts } from "./report/chartFiles.js";
 export { reportFiles, type ReportFile } from "./report/reportFiles.js";
 
 // Whole jobs
-export { measureFile } from "./pipeline.js";
+export { measureFile } from "./curve/measureFile.js";
 export { runStudy, type StudyRunOptions, type StudyResult } from "./study/runStudy.js";
 export { studySchema, type Study } from "./study/studyFile.js";
 

@@ -12,7 +12,7 @@ import { familyOption, forecastCurve } from "../forecast/forecast.js";
 import { checkpointFileFor, removeCheckpoint } from "../curve/checkpoint.js";
 import { checkOutputPath, readJsonFile, toJson, writeFileAtomic } from "../io/files.js";
 import { validate } from "../io/validate.js";
-import { measureFile } from "../pipeline.js";
+import { measureFile } from "../curve/measureFile.js";
 import { reportFiles } from "../report/reportFiles.js";
 import type { DecisionFile } from "../weigh/decisionFile.js";
 import { sizesForForecast, weighRuns } from "../weigh/weigh.js";

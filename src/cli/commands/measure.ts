@@ -32,7 +32,7 @@ export function measureCommand(io: CliIo): Command {
     .requiredOption("--out <file>", "where to write curve.json")
     .action(async (data: string, options: Record<string, string | boolean | undefined>) => {
       // Imported when the command runs, so that the other commands do not load the learners.
-      const { measureFile } = await import("../../pipeline.js");
+      const { measureFile } = await import("../../curve/measureFile.js");
       const progress = progressBar(io, options.quiet === true);
       const out = options.out as string;
       checkOutputPath(out, [data]);

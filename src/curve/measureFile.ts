@@ -1,13 +1,13 @@
 /**
- * The steps of the main job as library calls, each from files to a typed result: what the command
- * line and the study runner compose.
+ * Measuring from a file: reads a CSV, builds the data set and measures its learning curve, as the
+ * `measure` command and the study runner do.
  */
 import { basename } from "node:path";
-import { readDataset } from "./data/readDataset.js";
-import type { ColumnChoice } from "./data/tableToDataset.js";
-import type { CurveFile } from "./curve/curveFile.js";
-import { measureCurve, resolveMeasureOptions, type MeasureOptions } from "./curve/measure.js";
-import { sha256OfFile } from "./io/files.js";
+import { readDataset } from "../data/readDataset.js";
+import type { ColumnChoice } from "../data/tableToDataset.js";
+import type { CurveFile } from "./curveFile.js";
+import { measureCurve, resolveMeasureOptions, type MeasureOptions } from "./measure.js";
+import { sha256OfFile } from "../io/files.js";
 
 /** Reads a CSV, builds the data set and measures its learning curve. */
 export async function measureFile(file: string, options: ColumnChoice & MeasureOptions): Promise<CurveFile> {

@@ -42,14 +42,14 @@ const work = mkdtempSync(join(tmpdir(), "headroom-bench-"));
 const runs = Number(process.env.BENCH_RUNS ?? 2);
 const only = process.env.BENCH_ONLY?.split(",").map((word) => word.trim().toLowerCase());
 
-/** Gaussian classes: centres drawn once, rows scattered around them with unit noise. */
+/** Gaussian classes: centers drawn once, rows scattered around them with unit noise. */
 function generated(name: string, rows: number, features: number, classes: number, seed: number): string {
   const random = new RandomStream(seed);
-  const centres = Array.from({ length: classes }, () => Array.from({ length: features }, () => 0.9 * random.normal()));
+  const centers = Array.from({ length: classes }, () => Array.from({ length: features }, () => 0.9 * random.normal()));
   const lines = [[...Array.from({ length: features }, (_, j) => `x${j}`), "class"].join(",")];
   for (let i = 0; i < rows; i++) {
     const k = random.integer(classes);
-    const values = centres[k].map((c) => (c + random.normal()).toFixed(5));
+    const values = centers[k].map((c) => (c + random.normal()).toFixed(5));
     lines.push([...values, `c${k}`].join(","));
   }
   const file = join(work, `${name}.csv`);

@@ -444,7 +444,7 @@ interface Summary {
   pilotError: number;
 }
 
-function summarise(selection: readonly Row[]): Summary {
+function summarize(selection: readonly Row[]): Summary {
   const errors = selection.map((r) => Math.abs(r.forecast - r.truth));
   return {
     forecasts: selection.length,
@@ -485,18 +485,18 @@ for (const group of ["open", "generated"]) {
   const inGroup = rows.filter((r) => r.suite === group);
   if (inGroup.length === 0) continue;
   for (const name of [...new Set(inGroup.map((r) => r.dataSet))]) {
-    const s = summarise(inGroup.filter((r) => r.dataSet === name));
+    const s = summarize(inGroup.filter((r) => r.dataSet === name));
     summaries[name] = s;
     console.log(summaryLine(name, s));
   }
   for (const multiple of multiples) {
     const selection = inGroup.filter((r) => r.target === multiple * r.pilot);
-    if (selection.length > 0) console.log(summaryLine(`${group}, ${multiple}× pilot`, summarise(selection)));
+    if (selection.length > 0) console.log(summaryLine(`${group}, ${multiple}× pilot`, summarize(selection)));
   }
   for (const pilot of [...new Set(inGroup.map((r) => r.pilot))].sort((p, q) => p - q)) {
-    console.log(summaryLine(`${group}, pilot of ${pilot} rows`, summarise(inGroup.filter((r) => r.pilot === pilot))));
+    console.log(summaryLine(`${group}, pilot of ${pilot} rows`, summarize(inGroup.filter((r) => r.pilot === pilot))));
   }
-  const s = summarise(inGroup);
+  const s = summarize(inGroup);
   summaries[`all ${group}`] = s;
   console.log(summaryLine(`all ${group}`, s));
 }

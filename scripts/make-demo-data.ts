@@ -1,6 +1,6 @@
 /**
  * Writes the invented demo study's data, `fixtures/demo/water-samples.csv`: water samples from four
- * sampling cruises of an imaginary coastal monitoring lab, each labelled `bloom-risk` or `clear`.
+ * sampling cruises of an imaginary coastal monitoring lab, each labeled `bloom-risk` or `clear`.
  * Run with `npx tsx scripts/make-demo-data.ts`; the same seed always writes the same file.
  *
  * Generative model (a latent logistic model; nothing was fitted to real data):
@@ -11,7 +11,7 @@
  *    two readings (chlorophyll-a, water temperature) have moderate weights, most have small ones,
  *    four have none. The weights are scaled so that the log-odds have standard deviation 12 and the
  *    intercept gives about 31% bloom-risk samples.
- * 3. About 3% of labels are flipped at random (mislabelled or ambiguous samples), which caps the
+ * 3. About 3% of labels are flipped at random (mislabeled or ambiguous samples), which caps the
  *    accuracy any learner can reach.
  * 4. Each cruise adds its own offset (standard deviation 0.4 in latent units) to six sensors that are
  *    recalibrated between cruises (turbidity, oxygen, pH, phycocyanin, conductivity, CDOM). The

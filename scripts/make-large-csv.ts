@@ -1,5 +1,5 @@
 /**
- * Writes a large, seeded, labelled CSV for testing headroom on big inputs:
+ * Writes a large, seeded, labeled CSV for testing headroom on big inputs:
  *
  *     npx tsx scripts/make-large-csv.ts out.csv [rows=100000] [features=50] [seed=1]
  *

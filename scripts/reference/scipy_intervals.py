@@ -84,9 +84,9 @@ def clopper_pearson(x, n, level):
 
 def wilson(p, n, level):
     z = float(norm.ppf((1 + level) / 2))
-    centre = p + z * z / (2 * n)
+    center = p + z * z / (2 * n)
     spread = z * math.sqrt(p * (1 - p) / n + z * z / (4 * n * n))
-    return (centre - spread) / (1 + z * z / n), (centre + spread) / (1 + z * z / n)
+    return (center - spread) / (1 + z * z / n), (center + spread) / (1 + z * z / n)
 
 
 def held_out_needed(expected, target, confidence=0.95):

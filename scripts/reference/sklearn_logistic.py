@@ -8,8 +8,8 @@ Run with Debian's interpreter and packages (python3-sklearn, python3-numpy), not
 
 For each open data set in fixtures/open-data/ (feature columns, then a `class` column) it:
   1. standardizes every feature with StandardScaler fitted on the whole file;
-  2. fits LogisticRegression(C=1.0), which minimises 1/2 ||W||^2 + C * sum(log-loss) with the
-     intercepts not penalised: one coefficient vector for two classes, a multinomial (softmax) model
+  2. fits LogisticRegression(C=1.0), which minimizes 1/2 ||W||^2 + C * sum(log-loss) with the
+     intercepts not penalized: one coefficient vector for two classes, a multinomial (softmax) model
      with one vector per class for more (multi_class="auto");
   3. records classes_ (sorted string order), coef_, intercept_, predict_proba of the first 5 rows, the
      number of iterations, and the largest absolute gradient entry of the objective above at the
@@ -21,7 +21,7 @@ Two solvers are recorded:
     does not expose; on these data sets that happens first, leaving gradients up to about 5e-4 and
     coefficients up to about 3e-4 (digits intercepts 1e-3) away from the optimum.
   - `newtonCg`: solver="newton-cg", tol=1e-8, max_iter=100000, which stops on the gradient alone and
-    reaches |gradient| <= 1e-8 in under 20 iterations. These are the values to test an exact optimiser
+    reaches |gradient| <= 1e-8 in under 20 iterations. These are the values to test an exact optimizer
     against.
 
 The output, fixtures/reference/sklearn-logistic.json, is deterministic apart from its `generated` date
@@ -134,7 +134,7 @@ def run():
             "solvers": {key: {"solver": solver, "tol": tol} for key, (solver, tol) in SOLVERS.items()},
             "multi_class": "auto (multinomial for more than two classes)",
             "firstRows": FIRST_ROWS,
-            "gradientOf": "1/2 ||W||^2 + C * sum(log-loss), intercepts not penalised",
+            "gradientOf": "1/2 ||W||^2 + C * sum(log-loss), intercepts not penalized",
         },
         "dataSets": {name: fit_one(name) for name in DATA_SETS},
     }

@@ -1,5 +1,5 @@
 /**
- * The labelled data set as the rest of headroom sees it: a dense numeric feature matrix (NaN marks a
+ * The labeled data set as the rest of headroom sees it: a dense numeric feature matrix (NaN marks a
  * missing value), integer class labels, and optional run (batch) ids.
  */
 export interface Dataset {

@@ -1,7 +1,7 @@
 /**
  * Weighted nonlinear least squares by the Levenberg–Marquardt method.
  *
- * Minimises the weighted residual sum of squares
+ * Minimizes the weighted residual sum of squares
  *
  *     RSS(θ) = Σᵢ wᵢ · (model(xᵢ, θ) − yᵢ)²,   wᵢ = 1 / σᵢ²,
  *
@@ -658,7 +658,7 @@ function invertSymmetric(matrix: Float64Array, p: number): Float64Array | null {
 }
 
 /**
- * Cholesky factorisation A = L·Lᵀ in place (lower triangle) of a matrix scaled to a unit diagonal.
+ * Cholesky factorization A = L·Lᵀ in place (lower triangle) of a matrix scaled to a unit diagonal.
  * Returns false when a pivot falls below round-off, i.e. the matrix is singular to working precision.
  */
 function choleskyInPlace(a: Float64Array, m: number): boolean {

@@ -18,7 +18,7 @@
  *   repeating each backtest on bootstrap resamples of the repeats (`resampledPoints`; 30 resamples,
  *   the held-back mean taken from the same resample, so the two noises' correlation is kept): its
  *   variance v is the variance of the resampled errors. What the noise does not explain is the
- *   family's extrapolation error. It is modelled as a random walk in log training size: its
+ *   family's extrapolation error. It is modeled as a random walk in log training size: its
  *   variance grows in proportion to the distance L = ln(predicted size / largest fitted size), as
  *   the forecast variance of an integrated series grows with the horizon (Box and Jenkins, "Time
  *   series analysis: forecasting and control", random-walk forecasts). Its variance per unit of L is

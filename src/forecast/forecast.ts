@@ -151,7 +151,7 @@ export function familyOption(name: string): CurveFamily {
  * Forecasts the score at larger training sizes from a measured learning curve.
  *
  * Phases:
- * 1. Validate and summarise (`measuredCurve`): at least 3 distinct training sizes with finite
+ * 1. Validate and summarize (`measuredCurve`): at least 3 distinct training sizes with finite
  *    scores; mean, spread and fits per size; the repeat of each score; oriented values
  *    (`sign · mean`, so the curve rises) weighted by fits / variance with a floor.
  * 2. Fit and weigh the families (`assessFamilies`): each family is fitted by weighted
@@ -178,7 +178,7 @@ export function familyOption(name: string): CurveFamily {
  * @throws UsageError for a bad option value.
  */
 export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = {}): ForecastFile {
-  // 1. Validate and summarise (a curve counted in whole runs is restated in rows first).
+  // 1. Validate and summarize (a curve counted in whole runs is restated in rows first).
   const { curve, converted } = sizesInRows(measuredIn);
   const measured = measuredCurve(curve);
   const resolved = resolveForecastOptions(curve, options);

@@ -36,7 +36,7 @@ export interface MeasuredCurve {
 const varianceFloorFraction = 0.1;
 
 /**
- * Checks and summarises a curve.
+ * Checks and summarizes a curve.
  * @throws FitError when the curve has fewer than 3 distinct training sizes, a non-finite score, an
  *   empty or duplicated training size, an inconsistent `repeatOfScore` or a bad metric range.
  */
@@ -44,7 +44,7 @@ export function measuredCurve(curve: CurveFile): MeasuredCurve {
   const points = validatedPoints(curve);
   const orientation: Orientation = { higherIsBetter: curve.higherIsBetter, metricRange: curve.metricRange };
   const sign = orientationSign(orientation);
-  const summaries = points.map((point) => summarise(point));
+  const summaries = points.map((point) => summarize(point));
   const units = points.map((point) => resamplingUnit(point, curve.folds));
   const weights = sizeWeights(summaries);
   const oriented = summaries.map((summary, i) => ({
@@ -101,7 +101,7 @@ function validatedPoints(curve: CurveFile): CurvePoint[] {
 }
 
 /** Mean, sample standard deviation (n − 1; 0 for one fit) and number of fits at one size. */
-function summarise(point: CurvePoint): MeasuredSummary {
+function summarize(point: CurvePoint): MeasuredSummary {
   const fits = point.scores.length;
   const first = point.scores[0];
   if (point.scores.every((score) => score === first)) {

@@ -362,7 +362,7 @@ class TreeGrower {
         rightWeight -= w;
         if (values[position] <= values[position - 1] + featureThreshold) continue;
         if (position - start < minLeaf || end - position < minLeaf) continue;
-        // Maximising Σ nₗₖ²/nₗ + Σ nᵣₖ²/nᵣ minimises the children's weighted Gini impurity.
+        // Maximizing Σ nₗₖ²/nₗ + Σ nᵣₖ²/nᵣ minimizes the children's weighted Gini impurity.
         const proxy = leftSquares / leftWeight + rightSquares / rightWeight;
         if (proxy > bestProxy) {
           bestProxy = proxy;

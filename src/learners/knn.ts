@@ -1,13 +1,13 @@
 /**
- * k-nearest-neighbour classification (`--learner knn`).
+ * k-nearest-neighbor classification (`--learner knn`).
  *
  * It computes what scikit-learn's `KNeighborsClassifier(n_neighbors=k)` does (uniform weights,
  * Euclidean distance), on the features as the {@link Preprocessor} gives them (imputed, standardized,
  * text columns one-hot encoded): the probability of class c for a row is the fraction of its k nearest
  * training rows that belong to c, so the predicted class is the most common among them (a tie goes to
  * the lower class index, as scikit-learn's mode). Among training rows at equal distance the earlier
- * one counts (see {@link nearestNeighbours}). When the training rows are fewer than k, all of them
- * are the neighbours (scikit-learn would refuse; a small training subsample should still be scored).
+ * one counts (see {@link nearestNeighbors}). When the training rows are fewer than k, all of them
+ * are the neighbors (scikit-learn would refuse; a small training subsample should still be scored).
  *
  * Written by hand because the npm package ml-knn takes seconds on 2000 × 60 rows × columns when
  * tried; here fitting only stores the preprocessed rows and predicting is an exact
@@ -15,51 +15,51 @@
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
-import { nearestNeighbours } from "./neighbours.js";
+import { nearestNeighbors } from "./neighbors.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, wholeNumber } from "./settings.js";
 import { summarizeClasses } from "./trainingChecks.js";
 
 export interface KnnOptions {
-  /** Number of neighbours that vote (scikit-learn's `n_neighbors`). @default 5 */
-  neighbours?: number;
+  /** Number of neighbors that vote (scikit-learn's `n_neighbors`). @default 5 */
+  neighbors?: number;
 }
 
 export type ResolvedKnnOptions = Required<KnnOptions>;
 
 const name = "knn";
 
-/** Neighbour counts the tuning step tries (shared with k-NN regression). */
-export const neighboursTuningGrid: readonly LearnerSettings[] = [
-  { neighbours: 1 },
-  { neighbours: 3 },
-  { neighbours: 5 },
-  { neighbours: 9 },
-  { neighbours: 15 },
+/** Neighbor counts the tuning step tries (shared with k-NN regression). */
+export const neighborsTuningGrid: readonly LearnerSettings[] = [
+  { neighbors: 1 },
+  { neighbors: 3 },
+  { neighbors: 5 },
+  { neighbors: 9 },
+  { neighbors: 15 },
 ];
 
 /**
  * Fills in the defaults of {@link KnnOptions}.
- * @throws UsageError when neighbours is not a whole number of at least 1.
+ * @throws UsageError when neighbors is not a whole number of at least 1.
  */
 export function resolveKnnOptions(options: KnnOptions = {}, learner = name): ResolvedKnnOptions {
-  return { neighbours: wholeNumber(learner, "neighbours", options.neighbours ?? 5, 1) };
+  return { neighbors: wholeNumber(learner, "neighbors", options.neighbors ?? 5, 1) };
 }
 
 /** The k-NN classifier. Deterministic: the random stream is unused. */
-export class KNearestNeighbours implements Learner {
+export class KNearestNeighbors implements Learner {
   readonly name = name;
   readonly options: ResolvedKnnOptions;
-  readonly tuningGrid = neighboursTuningGrid;
+  readonly tuningGrid = neighborsTuningGrid;
 
   constructor(options: KnnOptions = {}) {
     this.options = resolveKnnOptions(options);
   }
 
-  /** @throws UsageError on a setting other than `neighbours` or a bad value. */
-  withOptions(settings: LearnerSettings): KNearestNeighbours {
-    checkSettingNames(name, settings, ["neighbours"]);
-    return new KNearestNeighbours({ ...this.options, ...settings });
+  /** @throws UsageError on a setting other than `neighbors` or a bad value. */
+  withOptions(settings: LearnerSettings): KNearestNeighbors {
+    checkSettingNames(name, settings, ["neighbors"]);
+    return new KNearestNeighbors({ ...this.options, ...settings });
   }
 
   /**
@@ -76,7 +76,7 @@ export class KNearestNeighbours implements Learner {
       preprocessor.transform(features, rows),
       rows,
       labels.slice(),
-      Math.min(this.options.neighbours, rows),
+      Math.min(this.options.neighbors, rows),
     );
   }
 }
@@ -93,18 +93,18 @@ export class FittedKnn implements FittedModel {
     readonly trainingRows: number,
     /** Class of each training row. */
     readonly labels: Int32Array,
-    /** Neighbours that vote: the option, or the number of training rows when fewer. */
-    readonly neighbours: number,
+    /** Neighbors that vote: the option, or the number of training rows when fewer. */
+    readonly neighbors: number,
   ) {}
 
   /**
-   * Class probabilities, row-major `rows × classCount`: the class fractions among the k neighbours.
+   * Class probabilities, row-major `rows × classCount`: the class fractions among the k neighbors.
    * @throws DataError when the features do not hold rows × columns values or a value is ±Infinity.
    */
   predictProbabilities(features: Float64Array, rows: number): Float64Array {
-    const { classCount, neighbours: k, labels } = this;
+    const { classCount, neighbors: k, labels } = this;
     const x = this.preprocessor.transform(features, rows);
-    const nearest = nearestNeighbours(this.training, this.trainingRows, x, rows, this.preprocessor.outputColumns, k);
+    const nearest = nearestNeighbors(this.training, this.trainingRows, x, rows, this.preprocessor.outputColumns, k);
     const out = new Float64Array(rows * classCount);
     for (let i = 0; i < rows; i++) {
       for (let n = 0; n < k; n++) out[i * classCount + labels[nearest[i * k + n]]] += 1;

@@ -1,19 +1,19 @@
 /**
- * k-nearest-neighbour regression (`--learner knn-regression`, for numeric targets).
+ * k-nearest-neighbor regression (`--learner knn-regression`, for numeric targets).
  *
  * It computes what scikit-learn's `KNeighborsRegressor(n_neighbors=k)` does (uniform weights,
  * Euclidean distance), on the features as the {@link Preprocessor} gives them (imputed, standardized,
  * text columns one-hot encoded): the prediction for a row is the mean target of its k nearest
  * training rows. Among training rows at equal distance the earlier one counts (see
- * {@link nearestNeighbours}); with fewer than k training rows, all of them are the neighbours.
+ * {@link nearestNeighbors}); with fewer than k training rows, all of them are the neighbors.
  *
- * Written by hand for the reason given in neighbours.ts: the npm package ml-knn takes seconds on
+ * Written by hand for the reason given in neighbors.ts: the npm package ml-knn takes seconds on
  * 2000 × 60; this is an exact brute-force search on raw Float64Arrays.
  */
 import type { RandomStream } from "../random.js";
 import type { FittedRegressionModel, LearnerSettings, RegressionLearner, RegressionTrainingSet } from "./learner.js";
-import { neighboursTuningGrid, resolveKnnOptions, type KnnOptions, type ResolvedKnnOptions } from "./knn.js";
-import { nearestNeighbours } from "./neighbours.js";
+import { neighborsTuningGrid, resolveKnnOptions, type KnnOptions, type ResolvedKnnOptions } from "./knn.js";
+import { nearestNeighbors } from "./neighbors.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames } from "./settings.js";
 import { checkRegressionSet } from "./trainingChecks.js";
@@ -21,21 +21,21 @@ import { checkRegressionSet } from "./trainingChecks.js";
 const name = "knn-regression";
 
 /** The k-NN regressor. Deterministic: the random stream is unused. */
-export class KNearestNeighboursRegression implements RegressionLearner {
+export class KNearestNeighborsRegression implements RegressionLearner {
   readonly name = name;
   readonly task = "regression";
   readonly options: ResolvedKnnOptions;
-  readonly tuningGrid = neighboursTuningGrid;
+  readonly tuningGrid = neighborsTuningGrid;
 
-  /** @throws UsageError when neighbours is not a whole number of at least 1. */
+  /** @throws UsageError when neighbors is not a whole number of at least 1. */
   constructor(options: KnnOptions = {}) {
     this.options = resolveKnnOptions(options, name);
   }
 
-  /** @throws UsageError on a setting other than `neighbours` or a bad value. */
-  withOptions(settings: LearnerSettings): KNearestNeighboursRegression {
-    checkSettingNames(name, settings, ["neighbours"]);
-    return new KNearestNeighboursRegression({ ...this.options, ...settings });
+  /** @throws UsageError on a setting other than `neighbors` or a bad value. */
+  withOptions(settings: LearnerSettings): KNearestNeighborsRegression {
+    checkSettingNames(name, settings, ["neighbors"]);
+    return new KNearestNeighborsRegression({ ...this.options, ...settings });
   }
 
   /**
@@ -51,7 +51,7 @@ export class KNearestNeighboursRegression implements RegressionLearner {
       preprocessor.transform(features, rows),
       rows,
       targets.slice(),
-      Math.min(this.options.neighbours, rows),
+      Math.min(this.options.neighbors, rows),
     );
   }
 }
@@ -66,8 +66,8 @@ export class FittedKnnRegression implements FittedRegressionModel {
     readonly trainingRows: number,
     /** Target of each training row. */
     readonly targets: Float64Array,
-    /** Neighbours averaged: the option, or the number of training rows when fewer. */
-    readonly neighbours: number,
+    /** Neighbors averaged: the option, or the number of training rows when fewer. */
+    readonly neighbors: number,
   ) {}
 
   /**
@@ -75,9 +75,9 @@ export class FittedKnnRegression implements FittedRegressionModel {
    * @throws DataError when the features do not hold rows × columns values or a value is ±Infinity.
    */
   predictValues(features: Float64Array, rows: number): Float64Array {
-    const k = this.neighbours;
+    const k = this.neighbors;
     const x = this.preprocessor.transform(features, rows);
-    const nearest = nearestNeighbours(this.training, this.trainingRows, x, rows, this.preprocessor.outputColumns, k);
+    const nearest = nearestNeighbors(this.training, this.trainingRows, x, rows, this.preprocessor.outputColumns, k);
     const out = new Float64Array(rows);
     for (let i = 0; i < rows; i++) {
       let sum = 0;

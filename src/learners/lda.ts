@@ -183,8 +183,8 @@ function columnMeans(block: Float64Array, n: number, p: number): Float64Array {
   return mean;
 }
 
-/** Centres the block's columns in place and returns their empirical covariance (divisor n). */
-function centredCovariance(block: Float64Array, n: number, p: number): Float64Array {
+/** Centers the block's columns in place and returns their empirical covariance (divisor n). */
+function centeredCovariance(block: Float64Array, n: number, p: number): Float64Array {
   const mean = columnMeans(block, n, p);
   for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) block[i * p + j] -= mean[j];
   const s = new Float64Array(p * p);
@@ -226,7 +226,7 @@ interface ShrunkCovariance {
 
 /** scikit-learn's `_cov(X, shrinkage)` for a number: the shrunk empirical covariance. */
 function fixedShrinkageCovariance(block: Float64Array, n: number, p: number, shrinkage: number): ShrunkCovariance {
-  const s = centredCovariance(block, n, p);
+  const s = centeredCovariance(block, n, p);
   let trace = 0;
   for (let j = 0; j < p; j++) trace += s[j * p + j];
   return { covariance: shrinkInPlace(s, p, shrinkage), floor: (shrinkage * trace) / p };
@@ -256,7 +256,7 @@ function ledoitWolfCovariance(block: Float64Array, n: number, p: number): Shrunk
   }
   for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) block[i * p + j] = (block[i * p + j] - mean[j]) / scale[j];
 
-  const s = centredCovariance(block, n, p); // also centres `block`
+  const s = centeredCovariance(block, n, p); // also centers `block`
   let floor: number;
   if (p === 1) {
     // One column: the shrinkage changes nothing; ledoit_wolf returns the mean square about the mean.
@@ -275,7 +275,7 @@ function ledoitWolfCovariance(block: Float64Array, n: number, p: number): Shrunk
 }
 
 /**
- * The Ledoit–Wolf shrinkage of centred data `x` (n × p) with empirical covariance `s`, as
+ * The Ledoit–Wolf shrinkage of centered data `x` (n × p) with empirical covariance `s`, as
  * sklearn.covariance.ledoit_wolf_shrinkage computes it:
  *   μ = trace(S)/p, δ² = ‖S − μI‖²_F / p, β² = min(δ², (Σᵢ ‖xᵢ‖⁴ / n − ‖S‖²_F) / (p·n)),
  * and the shrinkage is β² / δ² (0 when β² is 0, or when δ² is 0 and S is already μI).

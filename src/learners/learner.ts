@@ -6,7 +6,7 @@
 import type { RandomStream } from "../random.js";
 
 /**
- * Named numeric settings of a learner, e.g. `{ C: 0.1 }` or `{ neighbours: 9 }`: one point of a tuning
+ * Named numeric settings of a learner, e.g. `{ C: 0.1 }` or `{ neighbors: 9 }`: one point of a tuning
  * grid, or the options given to `withOptions`. Plain data, so it can cross to worker threads.
  */
 export type LearnerSettings = Readonly<Record<string, number>>;

@@ -1,5 +1,5 @@
 /**
- * The dense linear algebra the learners need, on row-major Float64Arrays: the Cholesky factorisation
+ * The dense linear algebra the learners need, on row-major Float64Arrays: the Cholesky factorization
  * of a symmetric positive-definite matrix and its solves (ridge regression, linear discriminant
  * analysis), and a minimum-norm solve by symmetric eigendecomposition for the rare singular case.
  *

@@ -1,11 +1,11 @@
 /**
- * L2-penalised logistic regression, the default learner.
+ * L2-penalized logistic regression, the default learner.
  *
- * It minimises the objective of scikit-learn's `LogisticRegression(penalty="l2", C)`:
+ * It minimizes the objective of scikit-learn's `LogisticRegression(penalty="l2", C)`:
  *
  *     ½‖W‖² + C · Σᵢ log-loss(yᵢ, softmax(W xᵢ + b))
  *
- * over the coefficients W and the intercepts b, with the intercepts not penalised. The features are
+ * over the coefficients W and the intercepts b, with the intercepts not penalized. The features are
  * first one-hot encoded (text columns), imputed and standardized by a {@link Preprocessor} fitted on
  * the training rows, so the coefficients apply to standardized features.
  *  - Two classes: one coefficient vector and one intercept for the second class against the first (as
@@ -14,7 +14,7 @@
  *    enough (Armijo's condition; near the optimum, where that decrease is below rounding, the
  *    approximate Wolfe conditions of Hager and Zhang).
  *  - More classes: the multinomial (softmax) model with one coefficient vector and one intercept per
- *    class, all coefficients penalised, as scikit-learn's multinomial lbfgs; fitted by limited-memory
+ *    class, all coefficients penalized, as scikit-learn's multinomial lbfgs; fitted by limited-memory
  *    BFGS (Nocedal and Wright, "Numerical Optimization", 2nd ed., algorithms 7.4 and 7.5) with ten
  *    correction pairs and a backtracking line search satisfying Armijo's condition (or the approximate
  *    Wolfe conditions, as for two classes). The intercepts are determined only up to a common
@@ -25,14 +25,14 @@
  *    F = Σᵢ log-loss + ‖W‖²/(2C) is at most `tolerance` in absolute value, or when an iteration
  *    lowers F by at most `relativeDecrease` · max(|F|, 1). F is strongly convex in W with modulus
  *    1/C, so the gradient test bounds the distance to the optimal coefficients by C · ‖∇F‖ whatever
- *    the number of rows. The optimisers work with F divided by n, whose scale does not grow with n.
+ *    the number of rows. The optimizers work with F divided by n, whose scale does not grow with n.
  *    A learning curve needs no tighter optimum: at these defaults the coefficients fitted on all of
  *    digits sit as near the optimum as scikit-learn's own (4e-4 relative); over the 80 fits of the
  *    benchmark's digits curve (`npm run bench`) the held-out accuracy was 0.94205 against 0.94201
  *    with a 1e-8 tolerance and no relative test (about one prediction in 28,800), in 5,037 L-BFGS
  *    iterations instead of 12,014.
  *  - A warm start (`fit`'s `previous` model, from the previous training size of a (repeat, fold))
- *    starts the optimiser from that model instead of from zero.
+ *    starts the optimizer from that model instead of from zero.
  *  - A training subsample may lack some of the data set's classes: the model is fitted on the classes
  *    present and gives the absent ones probability 0; with one class present it predicts that class
  *    with probability 1.
@@ -114,7 +114,7 @@ export class LogisticRegression implements Learner {
   /**
    * Fits the preprocessing and the model on the training rows. With `previous`, a logistic model
    * fitted on other rows of the same data (say, a smaller nested subsample) with the same classes
-   * present and no text columns, the optimiser starts from that model's decision function, carried
+   * present and no text columns, the optimizer starts from that model's decision function, carried
    * over to this fit's standardization, instead of from zero (a warm start): it then needs fewer
    * iterations, and its answer differs from a cold start's only within the stopping tolerance.
    * @throws DataError when there are no rows, the features do not hold rows × columns values, a label
@@ -429,8 +429,8 @@ function fitBinary(
 
 /**
  * Adds wᵢ aᵢ aᵢᵀ, for the row aᵢ = (xᵢ, 1) starting at `offset` of `x`, to the lower triangle of the
- * (p + 1)² `hessian`. A function of its own, called once per row: V8 optimises a small function after
- * a few calls, where the loop nested in the fit's loops ran unoptimised, boxing every number, for the
+ * (p + 1)² `hessian`. A function of its own, called once per row: V8 optimizes a small function after
+ * a few calls, where the loop nested in the fit's loops ran unoptimized, boxing every number, for the
  * first several fits of each thread.
  */
 function addToHessian(hessian: Float64Array, x: Float64Array, offset: number, p: number, wi: number): void {
@@ -448,7 +448,7 @@ function addToHessian(hessian: Float64Array, x: Float64Array, offset: number, p:
 /**
  * The binary fit's objective f(θ) (see {@link fitBinary}) on the rows `x`, `y`; fills `gradient` and
  * the IRLS weights pᵢ(1 − pᵢ). A function of its own rather than a closure made by each fit, so that
- * the optimised code of one fit serves the next (a new closure per fit sent V8 back to unoptimised
+ * the optimized code of one fit serves the next (a new closure per fit sent V8 back to unoptimized
  * code, boxing every number, which took a third of a small curve's time).
  */
 function binaryObjective(
@@ -594,9 +594,9 @@ interface Objective {
 
 /**
  * The multinomial fit's objective f(θ) (see {@link fitMultinomial}): the sums are `sums`', the rest
- * here. An object of one class rather than a closure made by each fit, so that the optimiser's call
- * of it keeps one target from fit to fit (a new closure per fit sent V8's optimised code for the
- * optimiser back to unoptimised code, boxing every number, for much of each thread's first fits).
+ * here. An object of one class rather than a closure made by each fit, so that the optimizer's call
+ * of it keeps one target from fit to fit (a new closure per fit sent V8's optimized code for the
+ * optimizer back to unoptimized code, boxing every number, for much of each thread's first fits).
  */
 class MultinomialObjective implements Objective {
   constructor(
@@ -629,7 +629,7 @@ class MultinomialObjective implements Objective {
  * Limited-memory BFGS (Nocedal and Wright 2006, algorithm 7.5, with the two-loop recursion of
  * algorithm 7.4 and the initial scaling sᵀy / yᵀy of equation 7.20), keeping `memory` correction pairs.
  * Each step backtracks from the full step until Armijo's sufficient-decrease condition holds (halving,
- * or the minimiser of the quadratic through the trial point when that is inside [0.1, 0.5] of it).
+ * or the minimizer of the quadratic through the trial point when that is inside [0.1, 0.5] of it).
  * A pair with sᵀy ≤ 0 is skipped, keeping the inverse-Hessian estimate positive definite.
  * Near the optimum the decrease Armijo's condition asks for falls below the rounding error of the
  * objective; a step is then also accepted under the approximate Wolfe conditions (see
@@ -731,7 +731,7 @@ function minimizeLbfgs(
         accepted = true;
         break;
       }
-      // Minimiser of the quadratic matching f, the slope and fTrial, kept within [0.1 t, 0.5 t].
+      // Minimizer of the quadratic matching f, the slope and fTrial, kept within [0.1 t, 0.5 t].
       const curvature = fTrial - f - slope * t;
       let next = Number.isFinite(curvature) && curvature > 0 ? (-slope * t * t) / (2 * curvature) : t / 2;
       next = Math.min(0.5 * t, Math.max(0.1 * t, next));
@@ -781,9 +781,9 @@ function minimizeLbfgs(
   return { solution: x, iterations, converged };
 }
 
-// The loops over the parameters live in small functions of their own: V8 optimises a small function
-// after a few calls, while a loop inside the optimiser's long one waited for a slow compilation of
-// the whole, running unoptimised (boxing every number) for much of each thread's first fits.
+// The loops over the parameters live in small functions of their own: V8 optimizes a small function
+// after a few calls, while a loop inside the optimizer's long one waited for a slow compilation of
+// the whole, running unoptimized (boxing every number) for much of each thread's first fits.
 
 /** Sets `out` = −g. */
 function negate(g: Float64Array, out: Float64Array): void {

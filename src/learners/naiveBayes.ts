@@ -11,7 +11,7 @@
  *
  *     πₖ · Πⱼ N(xⱼ; θₖⱼ, σ²ₖⱼ + ε),
  *
- * computed on the log scale and normalised by log-sum-exp. When every feature is constant over the
+ * computed on the log scale and normalized by log-sum-exp. When every feature is constant over the
  * training rows (scikit-learn would divide by zero) ε is varSmoothing itself, the variance of a
  * standardized column being 1. Classes absent from the training rows get probability 0.
  *

@@ -31,7 +31,7 @@ import { scratchDoubles } from "./scratch.js";
 export interface PreprocessOptions {
   /** Per input column, the category names of a text column or null for a numeric one. @default all numeric */
   categories?: readonly (readonly string[] | null)[];
-  /** Whether to centre and scale the numeric columns. @default true */
+  /** Whether to center and scale the numeric columns. @default true */
   standardize?: boolean;
 }
 
@@ -109,8 +109,8 @@ export function fitPreprocessor(
 }
 
 // The loops over the rows of one column live in small functions of their own, called once per
-// column: V8 optimises them after a few calls, where loops nested in fitPreprocessor's ran
-// unoptimised, boxing every number, through the first fits of each thread.
+// column: V8 optimizes them after a few calls, where loops nested in fitPreprocessor's ran
+// unoptimized, boxing every number, through the first fits of each thread.
 
 /**
  * Copies the non-missing values of column `j` of the row-major `rows × width` matrix into `present`

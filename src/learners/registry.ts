@@ -5,8 +5,8 @@
  */
 import type { Learner, RegressionLearner } from "./learner.js";
 import { RandomForest } from "./forest.js";
-import { KNearestNeighbours } from "./knn.js";
-import { KNearestNeighboursRegression } from "./knnRegression.js";
+import { KNearestNeighbors } from "./knn.js";
+import { KNearestNeighborsRegression } from "./knnRegression.js";
 import { LinearDiscriminant } from "./lda.js";
 import { LogisticRegression } from "./logistic.js";
 import { GaussianNaiveBayes } from "./naiveBayes.js";
@@ -17,14 +17,14 @@ const factories: Record<string, () => Learner> = {
   logistic: () => new LogisticRegression(),
   lda: () => new LinearDiscriminant(),
   "naive-bayes": () => new GaussianNaiveBayes(),
-  knn: () => new KNearestNeighbours(),
+  knn: () => new KNearestNeighbors(),
   forest: () => new RandomForest(),
   svm: () => new LinearSvm(),
 };
 
 const regressionFactories: Record<string, () => RegressionLearner> = {
   ridge: () => new RidgeRegression(),
-  "knn-regression": () => new KNearestNeighboursRegression(),
+  "knn-regression": () => new KNearestNeighborsRegression(),
 };
 
 /** Names of the classification learners available. */

@@ -3,12 +3,12 @@
  *
  * It computes what scikit-learn's `Ridge(alpha)` does (with its default intercept and its "cholesky"
  * solver), on the features as the {@link Preprocessor} gives them (imputed, standardized, text columns
- * one-hot encoded): it minimises
+ * one-hot encoded): it minimizes
  *
  *     ‖y − X w − b‖² + α ‖w‖²
  *
- * with the intercept b not penalised. The columns and the targets are centred on their training means
- * x̄ and ȳ, the normal equations (XcᵀXc + αI) w = Xcᵀyc are solved by a Cholesky factorisation, and
+ * with the intercept b not penalized. The columns and the targets are centered on their training means
+ * x̄ and ȳ, the normal equations (XcᵀXc + αI) w = Xcᵀyc are solved by a Cholesky factorization, and
  * b = ȳ − x̄·w. With α = 0 and a singular XcᵀXc, the minimum-norm solution is taken.
  *
  * Written by hand: the fit is one pass forming the p × p normal equations and a Cholesky solve on raw
@@ -84,20 +84,20 @@ export class RidgeRegression implements RegressionLearner {
     targetMean /= rows;
     for (let j = 0; j < p; j++) columnMeans[j] /= rows;
 
-    // Normal equations on the centred columns: lower triangle accumulated, then mirrored.
+    // Normal equations on the centered columns: lower triangle accumulated, then mirrored.
     const gram = new Float64Array(p * p);
     const right = new Float64Array(p);
-    const centred = new Float64Array(p);
+    const centered = new Float64Array(p);
     for (let i = 0; i < rows; i++) {
       const offset = i * p;
-      for (let j = 0; j < p; j++) centred[j] = x[offset + j] - columnMeans[j];
+      for (let j = 0; j < p; j++) centered[j] = x[offset + j] - columnMeans[j];
       const y = targets[i] - targetMean;
       for (let a = 0; a < p; a++) {
-        const va = centred[a];
+        const va = centered[a];
         if (va === 0) continue;
         right[a] += va * y;
         const row = a * p;
-        for (let b = 0; b <= a; b++) gram[row + b] += va * centred[b];
+        for (let b = 0; b <= a; b++) gram[row + b] += va * centered[b];
       }
     }
     for (let a = 0; a < p; a++) {
@@ -121,7 +121,7 @@ export class FittedRidge implements FittedRegressionModel {
     readonly preprocessor: Preprocessor,
     /** Coefficients on the preprocessed columns (scikit-learn's `coef_`). */
     readonly coefficients: Float64Array,
-    /** The unpenalised intercept (scikit-learn's `intercept_`). */
+    /** The unpenalized intercept (scikit-learn's `intercept_`). */
     readonly intercept: number,
   ) {}
 

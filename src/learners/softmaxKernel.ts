@@ -9,7 +9,7 @@
  * Float64Arrays (eight rows at a time, the fastest JavaScript layout found): 3.1 times as fast on a
  * digits-sized problem (1,437 rows × 64 columns × 10 classes), 3.2 times on 8,000 × 16 × 26 and
  * 2.6 times on 4,000 × 20 × 3 — in JavaScript every array access is bounds-checked and nothing is
- * vectorised. Only WebAssembly's deterministic instructions are used (IEEE-754 additions,
+ * vectorized. Only WebAssembly's deterministic instructions are used (IEEE-754 additions,
  * multiplications and divisions, no fused multiply-add, no "relaxed" SIMD), so a given input gives the
  * same bits on every machine, thread and run.
  *
@@ -486,7 +486,7 @@ function kernelBytes(): Uint8Array {
         op.f64Store(128),
         op.end,
       ]),
-      // 3. Softmax, vectorised over rows: each row's largest score, the exponentials and their sum.
+      // 3. Softmax, vectorized over rows: each row's largest score, the exponentials and their sum.
       ...lanes.flatMap(([offset, m]) => [op.localGet(scores), op.v128Load(offset), op.localSet(m)]),
       ...forLoop(k, classes, [
         ...classScores,

@@ -4,7 +4,7 @@
  * It computes what scikit-learn's `LinearSVC(loss="hinge", dual=True, C)` does, on the features as
  * the {@link Preprocessor} gives them (imputed, standardized, text columns one-hot encoded). As in
  * LIBLINEAR, which LinearSVC calls, the intercept is the weight of an extra constant feature equal to
- * 1 and is penalised with the other weights; each binary problem minimises
+ * 1 and is penalized with the other weights; each binary problem minimizes
  *
  *     ½ ‖(w, b)‖² + C · Σᵢ max(0, 1 − yᵢ (w·xᵢ + b)),   yᵢ ∈ {−1, +1},
  *

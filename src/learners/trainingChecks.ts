@@ -19,7 +19,7 @@ export interface ClassSummary {
 }
 
 /**
- * Checks a classification training set and summarises its classes.
+ * Checks a classification training set and summarizes its classes.
  * @throws DataError when there are no rows, the features do not hold rows × columns values, the
  *   labels do not match the rows, classCount is not a whole number of at least 1, or a label lies
  *   outside 0 .. classCount − 1.

@@ -31,8 +31,8 @@ export interface BacktestInput {
   rootMeanSquareError?: Readonly<Record<string, number>>;
 }
 
-/** Colours of up to eight families, in order of first appearance (Okabe–Ito, black last). */
-const familyColours = [
+/** Colors of up to eight families, in order of first appearance (Okabe–Ito, black last). */
+const familyColors = [
   okabeIto.blue,
   okabeIto.orange,
   okabeIto.bluishGreen,
@@ -81,7 +81,7 @@ export function backtestErrors(
  * 1. the measured mean score per training size (dark points) and, for each family, what a fit to the
  *    smaller sizes predicted at each larger one (open points, one line per family and cut-off);
  * 2. each family's mean absolute error over those predictions (in percentage points when the metric
- *    is a fraction), labelled with its weight in the combined forecast when known.
+ *    is a fraction), labeled with its weight in the combined forecast when known.
  *
  * @example
  * const spec = backtestChart({ metric: "accuracy", higherIsBetter: true, predictions });
@@ -91,10 +91,10 @@ export function backtestChart(input: BacktestInput, options: ChartOptions = {}):
   const resolved = resolveChartOptions(options);
   const info = describeMetric(input.metric, input.higherIsBetter, input.metricRange ?? resolved.metricRange);
   const families = [...new Set(input.predictions.map((p) => p.family))];
-  const colour = {
+  const color = {
     field: "family",
     type: "nominal" as const,
-    scale: { domain: families, range: familyColours.slice(0, Math.max(1, families.length)) },
+    scale: { domain: families, range: familyColors.slice(0, Math.max(1, families.length)) },
     legend: { title: "Family" },
   };
   const measuredBySize = new Map(input.predictions.map((p) => [p.trainingSize, p.measured]));
@@ -159,7 +159,7 @@ export function backtestChart(input: BacktestInput, options: ChartOptions = {}):
       {
         data: { values: predictions },
         mark: { type: "line", aria: false, strokeWidth: 1.5, strokeDash: [4, 3] },
-        encoding: { x, y: y("predicted"), color: colour, detail: { field: "series" } },
+        encoding: { x, y: y("predicted"), color: color, detail: { field: "series" } },
       },
       {
         data: { values: predictions },
@@ -167,7 +167,7 @@ export function backtestChart(input: BacktestInput, options: ChartOptions = {}):
         encoding: {
           x,
           y: y("predicted"),
-          color: colour,
+          color: color,
           tooltip: [
             { field: "family", type: "nominal", title: "Family" },
             { field: "fittedUpTo", type: "quantitative", title: "Fitted up to", format: ",.0f" },
@@ -196,7 +196,7 @@ export function backtestChart(input: BacktestInput, options: ChartOptions = {}):
       {
         mark: { type: "bar", height: { band: 0.6 } },
         encoding: {
-          color: colour,
+          color: color,
           tooltip: [
             { field: "family", type: "nominal", title: "Family" },
             {

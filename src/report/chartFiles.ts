@@ -1,5 +1,5 @@
 /**
- * The charts as files for slides and documents: SVG drawn by vega in Node, and PNG rasterised from
+ * The charts as files for slides and documents: SVG drawn by vega in Node, and PNG rasterized from
  * that SVG by resvg.
  *
  * SVG: vega-lite compiles the spec, vega draws it with its headless SVG renderer (`renderer: "none"`
@@ -96,7 +96,7 @@ export function numberClipPaths(svg: string): string {
 }
 
 /**
- * Rasterises an SVG to PNG at `scale` times its size (2 by default: sharp on slides and high-density
+ * Rasterizes an SVG to PNG at `scale` times its size (2 by default: sharp on slides and high-density
  * screens), with the text drawn in the given fonts.
  *
  * @param fonts from `findChartFonts()`; without files resvg uses the system's fonts

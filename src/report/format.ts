@@ -79,7 +79,7 @@ export interface ScoreStyle {
 
 /** What the report needs to know about a metric: its name in words and whether it is a fraction. */
 export interface MetricInfo {
-  /** The metric in words, capitalised for an axis title or table heading ("Accuracy"). */
+  /** The metric in words, capitalized for an axis title or table heading ("Accuracy"). */
   title: string;
   /** The metric in words inside a sentence ("accuracy"). */
   inSentence: string;
@@ -154,7 +154,7 @@ export function countInWords(count: number): string {
   return Number.isInteger(count) && count >= 0 && count < numberWords.length ? numberWords[count] : formatCount(count);
 }
 
-/** "One more run", "Three more runs", "12 more runs" (capitalised for the start of a sentence). */
+/** "One more run", "Three more runs", "12 more runs" (capitalized for the start of a sentence). */
 export function moreRuns(runs: number): string {
   const words = countInWords(runs);
   const phrase = `${words} more ${runs === 1 ? "run" : "runs"}`;

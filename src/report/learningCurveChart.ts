@@ -134,7 +134,7 @@ export function learningCurveChart(
     scale: { zero: false, nice: true },
     axis: { title: info.title, ...(format ? { format } : {}), tickCount: 6 },
   });
-  const colour = {
+  const color = {
     field: "series",
     type: "nominal" as const,
     scale: {
@@ -160,7 +160,7 @@ export function learningCurveChart(
     {
       data: { values: band },
       mark: { type: "area", aria: false, opacity: 0.28 },
-      encoding: { x, y: y("lower"), y2: { field: "upper" }, color: colour },
+      encoding: { x, y: y("lower"), y2: { field: "upper" }, color: color },
     },
     markerRule(todayMarkers, palette.muted),
     ...(runMarkers.length > 0 ? [markerRule(runMarkers, palette.runs, [4, 3])] : []),
@@ -181,7 +181,7 @@ export function learningCurveChart(
       encoding: {
         x,
         y: y("score"),
-        color: colour,
+        color: color,
         tooltip: [
           { field: "trainingSize", type: "quantitative", title: "Training samples", format: ",.0f" },
           { field: "score", type: "quantitative", title: info.title, format: tooltipFormat },
@@ -191,7 +191,7 @@ export function learningCurveChart(
     {
       data: { values: fittedPart },
       mark: { type: "line", aria: false, strokeWidth: 2.25 },
-      encoding: { x, y: y("expected"), color: colour },
+      encoding: { x, y: y("expected"), color: color },
     },
     {
       data: { values: projectedPart },
@@ -199,13 +199,13 @@ export function learningCurveChart(
       encoding: {
         x,
         y: y("expected"),
-        color: colour,
+        color: color,
       },
     },
     {
       data: { values: measured },
       mark: { type: "rule", aria: false, strokeWidth: 1.5 },
-      encoding: { x, y: y("low"), y2: { field: "high" }, color: colour },
+      encoding: { x, y: y("low"), y2: { field: "high" }, color: color },
     },
     {
       data: { values: measured },
@@ -213,7 +213,7 @@ export function learningCurveChart(
       encoding: {
         x,
         y: y("mean"),
-        color: colour,
+        color: color,
         tooltip: [
           { field: "trainingSize", type: "quantitative", title: "Training samples", format: ",.0f" },
           { field: "mean", type: "quantitative", title: `Mean ${info.inSentence}`, format: tooltipFormat },

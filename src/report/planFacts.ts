@@ -21,7 +21,7 @@ interface PlanKeys {
 
 /** What the report says about a plan. */
 export interface PlanFacts {
-  /** Expected labelled samples one run yields after quality control. */
+  /** Expected labeled samples one run yields after quality control. */
   samplesPerRun: number;
   /** Value of one percentage point of the score (0.01 of a metric that is not a fraction); 0 when only a target is given. */
   valuePerPoint: number;

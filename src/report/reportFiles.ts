@@ -32,7 +32,7 @@ export interface ReportFilesOptions {
  * when their data are present). Deterministic: the same input and fonts give the same bytes.
  *
  * Phases: render the page; write the table as CSV; build the chart specs (the same the page embeds);
- * draw each to SVG in Node; rasterise each SVG to PNG.
+ * draw each to SVG in Node; rasterize each SVG to PNG.
  *
  * @example
  * const files = await reportFiles(input);

@@ -1,10 +1,10 @@
 /**
- * The report's visual identity, defined once: a colour-blind-safe palette and the Vega-Lite config
+ * The report's visual identity, defined once: a color-blind-safe palette and the Vega-Lite config
  * every chart shares.
  *
  * The hues are those of Okabe and Ito (2008, "Color Universal Design"), chosen so that the eight
- * colours stay distinguishable under the common forms of colour-vision deficiency. Each role in the
- * charts gets one named colour, so a reader sees the same meaning in the same colour throughout.
+ * colors stay distinguishable under the common forms of color-vision deficiency. Each role in the
+ * charts gets one named color, so a reader sees the same meaning in the same color throughout.
  */
 import type { Config } from "vega-lite";
 
@@ -20,7 +20,7 @@ export const okabeIto = {
   reddishPurple: "#CC79A7",
 } as const;
 
-/** Colours by role in the charts. */
+/** Colors by role in the charts. */
 export const palette = {
   /** Text, measured means and their error bars. */
   ink: "#1f2328",

@@ -2,7 +2,7 @@
  * The plan: what a further run yields and costs, how long it takes, and what a point of score is
  * worth. Validated with zod so that every error names the key (`plan.json: costPerRun: ...`).
  *
- * Yield. A run yields `samplesPerRun` labelled samples, or an uncertain number: `samplesPerRunRange`
+ * Yield. A run yields `samplesPerRun` labeled samples, or an uncertain number: `samplesPerRunRange`
  * [fewest, most] (every whole number in between equally likely), and/or a share `passRate` of the
  * samples a run collects passes quality control (binomial thinning).
  *
@@ -30,9 +30,9 @@ export const clinicalSchema = z.strictObject({
 
 export const planSchema = z
   .strictObject({
-    /** Samples already labelled (default: the curve's rows, or its largest training size). */
+    /** Samples already labeled (default: the curve's rows, or its largest training size). */
     currentSamples: z.number().int().positive().optional(),
-    /** Labelled samples one further run yields (with `passRate`: collects, before quality control). */
+    /** Labeled samples one further run yields (with `passRate`: collects, before quality control). */
     samplesPerRun: z.number().int().positive().optional(),
     /** [fewest, most] samples one run yields, when the yield is uncertain; instead of samplesPerRun. */
     samplesPerRunRange: z.tuple([z.number().int().nonnegative(), z.number().int().positive()]).optional(),

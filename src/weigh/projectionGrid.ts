@@ -3,9 +3,9 @@
  *
  * A forecast projects to fixed training sizes only; a run with an uncertain yield (or a yield scaled
  * for sensitivity) lands between them. The score at such a size is interpolated linearly in
- * log(trainingSize) between the two neighbouring projections, draw by draw, so draw j stays one
+ * log(trainingSize) between the two neighboring projections, draw by draw, so draw j stays one
  * plausible curve. A learning curve is smooth and close to linear in log(size) over the short spans
- * between neighbouring projections, which is what makes this a fair approximation; at a projected
+ * between neighboring projections, which is what makes this a fair approximation; at a projected
  * size the value is exact.
  */
 import type { ForecastFile } from "../forecast/forecastFile.js";
@@ -56,7 +56,7 @@ export class ProjectionGrid {
   }
 
   /**
-   * Linear interpolation in log(size) between the neighbouring projections.
+   * Linear interpolation in log(size) between the neighboring projections.
    * @throws RangeError when `size` lies outside the projected sizes (callers check `covers` first)
    */
   private interpolate(size: number, valueAt: (index: number) => number): number {

@@ -42,9 +42,9 @@ export function wilsonLowerBound(observed: number, n: number, confidence = 0.95)
 
 function wilsonBound(p: number, n: number, z: number): number {
   const z2 = z * z;
-  const centre = p + z2 / (2 * n);
+  const center = p + z2 / (2 * n);
   const spread = z * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n));
-  return (centre + spread) / (1 + z2 / n);
+  return (center + spread) / (1 + z2 / n);
 }
 
 /**

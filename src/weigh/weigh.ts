@@ -165,7 +165,7 @@ export function weighRuns(
  * After a pilot of its first k runs (k = 1..min(R − 1, 12)) one decides whether to go on with the
  * remaining R − k runs (go) or to stop (no-go). Go pays U = valuePerPoint × 100 × sign ×
  * (s(N_R) − s(N_k)) − (cost(R) − cost(k)) over no-go. The pilot's measurement is the
- * cross-validated score at N_k, modelled as s(N_k) plus normal noise of sd τ_k. The EVSI of the pilot
+ * cross-validated score at N_k, modeled as s(N_k) plus normal noise of sd τ_k. The EVSI of the pilot
  * is the value of deciding after seeing that score rather than now (valueOfInformation.ts), with the
  * forecast's draws as the prior, sizes at the expected yield.
  *

@@ -35,7 +35,7 @@ describe("headroom forecast options", () => {
     expect(forecast.projections.map((p: { trainingSize: number }) => p.trainingSize)).toEqual([1600, 3200]);
   });
 
-  it("prints a table labelling both intervals, the family weights and the target's answer", async () => {
+  it("prints a table labeling both intervals, the family weights and the target's answer", async () => {
     const c = capture();
     expect(await run(["forecast", curveFile, "--at", "1600", "--target", "0.88", "--test-size", "250"], c.io)).toBe(
       ExitCode.ok,

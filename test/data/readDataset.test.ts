@@ -73,7 +73,7 @@ describe("readDataset", () => {
   });
 
   it.each<[string, string, ColumnChoice]>([
-    ["text columns and missing cells", "colour,x,c\nred,1,a\nblue,2,b\n,3,a\nred,NA,b\ngreen,5,a\n", { label: "c" }],
+    ["text columns and missing cells", "color,x,c\nred,1,a\nblue,2,b\n,3,a\nred,NA,b\ngreen,5,a\n", { label: "c" }],
     [
       "runs and ignored columns",
       "id,x,run,c\n1,1.5,r2,b\n2,-2e1,r1,a\n3,.5,r2,b\n",

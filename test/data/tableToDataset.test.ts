@@ -28,7 +28,7 @@ describe("tableToDataset", () => {
   });
 
   it("makes a text column categorical: sorted category names, index values, NaN for missing", () => {
-    const data = tableToDataset(csv("colour,x,c\nred,1,a\nblue,2,b\n,3,a\nred,NA,b\ngreen,5,a\n"), { label: "c" });
+    const data = tableToDataset(csv("color,x,c\nred,1,a\nblue,2,b\n,3,a\nred,NA,b\ngreen,5,a\n"), { label: "c" });
     expect(data.categories).toEqual([["blue", "green", "red"], null]);
     expect([...data.features]).toEqual([2, 1, 0, 2, NaN, 3, 2, NaN, 1, 5]);
   });

@@ -179,7 +179,7 @@ describe("every family against SciPy on weighted points", () => {
   // optimum lies inside the family's bounds, so the bounded multi-start fit must find the same
   // point: parameters to 1e-6 relative (in the literature's names, via scoreParameters), weighted RSS
   // to 1e-9 relative, and standard errors to 1e-5 relative for the parameters our vector shares with
-  // SciPy's (a reparametrisation of the others leaves their marginal standard errors unchanged).
+  // SciPy's (a reparametrization of the others leaves their marginal standard errors unchanged).
   interface Reference {
     names: string[];
     sizes: number[];

@@ -30,7 +30,7 @@ describe("shareDraws: draws shared out among families by weight", () => {
 
 describe("quantileSorted (Hyndman and Fan 1996, definition 7)", () => {
   // Values as numpy.quantile(x, p) gives them with its default linear method (from memory; the
-  // definition: position (n − 1)·p, linear interpolation between the neighbouring order statistics).
+  // definition: position (n − 1)·p, linear interpolation between the neighboring order statistics).
   it.each([
     { values: [1, 2, 3, 4], p: 0.5, expected: 2.5 },
     { values: [1, 2, 3, 4], p: 0.1, expected: 1.3 },

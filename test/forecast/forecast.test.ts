@@ -88,7 +88,7 @@ describe("forecastCurve on exact pow3 points", () => {
     expect(forecast.sampleStandardDeviation).toBe(0);
   });
 
-  it("summarises the measured points (mean, standard deviation, fits)", () => {
+  it("summarizes the measured points (mean, standard deviation, fits)", () => {
     expect(forecast.measured.map((m) => m.trainingSize)).toEqual(sizes);
     expect(forecast.measured.every((m) => m.standardDeviation === 0 && m.fits === 25)).toBe(true);
     expect(forecast.largestMeasuredSize).toBe(800);
@@ -202,7 +202,7 @@ describe("forecastCurve on noisy points from a known pow3", () => {
   const curve = curveOf(noisyPoints(accuracyTruth, 11));
   const forecast = forecastCurve(curve);
 
-  it("summarises each size with the sample mean and standard deviation (simple-statistics)", () => {
+  it("summarizes each size with the sample mean and standard deviation (simple-statistics)", () => {
     forecast.measured.forEach((summary, i) => {
       expect(summary.mean).toBeCloseTo(mean(curve.points[i].scores), 14);
       expect(summary.standardDeviation).toBeCloseTo(sampleStandardDeviation(curve.points[i].scores), 14);
@@ -243,7 +243,7 @@ describe("forecastCurve on noisy points from a known pow3", () => {
 
   it("covers the truth at 3× rows in most of 30 synthetic data sets, without being uselessly wide", () => {
     // 30 data sets, 60 draws each. During development 27 of 30 (0.9) intervals covered the truth, with
-    // a mean width of about 4 points. A broken interval (draws not varying, or not centred) covers far
+    // a mean width of about 4 points. A broken interval (draws not varying, or not centered) covers far
     // less; one that ignored the data would be far wider. Thresholds: coverage ≥ 0.6, width ≤ 0.1.
     let covered = 0;
     let width = 0;
@@ -299,12 +299,12 @@ describe("forecastCurve uncertainty parts", () => {
 
   it("gives the same forecast when the repeats are given by repeatOfScore, whatever the order of the scores", () => {
     // Reverse each size's scores and label them: repeatOfScore, not the position, says the repeat.
-    const labelled = points.map((p) => ({
+    const labeled = points.map((p) => ({
       ...p,
       scores: p.scores.slice().reverse(),
       repeatOfScore: p.scores.map((_, s) => 4 - Math.floor(s / 5)),
     }));
-    const other = forecastCurve(curveOf(labelled), { at: [1000, 5000], family: "pow3" });
+    const other = forecastCurve(curveOf(labeled), { at: [1000, 5000], family: "pow3" });
     // Equal up to the round-off of summing the scores in another order.
     other.projections.forEach((p, i) => {
       const q = forecast.projections[i];

@@ -1,7 +1,7 @@
 import { describe, it, expect } from "vitest";
 import fc from "fast-check";
-import { KNearestNeighbours, resolveKnnOptions } from "../../src/learners/knn.js";
-import { nearestNeighbours } from "../../src/learners/neighbours.js";
+import { KNearestNeighbors, resolveKnnOptions } from "../../src/learners/knn.js";
+import { nearestNeighbors } from "../../src/learners/neighbors.js";
 import { predictClasses } from "../../src/learners/learner.js";
 import { RandomStream } from "../../src/random.js";
 import { UsageError } from "../../src/errors.js";
@@ -16,11 +16,11 @@ import { classificationSplit, largestDifference } from "./sklearnReference.js";
  */
 const random = new RandomStream(20261201);
 
-describe("KNearestNeighbours against scikit-learn's KNeighborsClassifier(5)", () => {
+describe("KNearestNeighbors against scikit-learn's KNeighborsClassifier(5)", () => {
   // Measured: identical predictions and probabilities (multiples of 1/5) on all four sets.
   it.each(openDataNames)("%s: identical test predictions and probabilities (to 1e-12)", (name) => {
     const { ref, training, testFeatures, testRows } = classificationSplit(name);
-    const model = new KNearestNeighbours().fit(training, random);
+    const model = new KNearestNeighbors().fit(training, random);
     const probabilities = model.predictProbabilities(testFeatures, testRows.length);
     expect(Array.from(predictClasses(probabilities, testRows.length, ref.classes.length))).toEqual(ref.knn.predictions);
     expect(largestDifference(probabilities, ref.knn.probabilities!)).toBeLessThan(1e-12);
@@ -28,17 +28,17 @@ describe("KNearestNeighbours against scikit-learn's KNeighborsClassifier(5)", ()
 });
 
 /** Brute force by sorting: all distances, stable sort, first k. */
-function sortedNeighbours(training: number[][], query: number[], k: number): number[] {
+function sortedNeighbors(training: number[][], query: number[], k: number): number[] {
   const distances = training.map((row) => row.reduce((s, v, j) => s + (v - query[j]) ** 2, 0));
   return [...distances.keys()].sort((a, b) => distances[a] - distances[b] || a - b).slice(0, k);
 }
 
-describe("nearestNeighbours", () => {
+describe("nearestNeighbors", () => {
   it("breaks ties in distance by training order: the earlier row wins", () => {
     // Rows at distance 1 from the query 0: indices 1, 2 and 3 (values −1, 1, −1); k = 2 keeps 1 and 2.
     const training = Float64Array.of(5, -1, 1, -1, 4);
-    expect(Array.from(nearestNeighbours(training, 5, Float64Array.of(0), 1, 1, 2))).toEqual([1, 2]);
-    expect(Array.from(nearestNeighbours(training, 5, Float64Array.of(0), 1, 1, 4))).toEqual([1, 2, 3, 4]);
+    expect(Array.from(nearestNeighbors(training, 5, Float64Array.of(0), 1, 1, 2))).toEqual([1, 2]);
+    expect(Array.from(nearestNeighbors(training, 5, Float64Array.of(0), 1, 1, 4))).toEqual([1, 2, 3, 4]);
   });
 
   it("agrees with a stable sort of all distances on random integer data (many ties)", () => {
@@ -54,7 +54,7 @@ describe("nearestNeighbours", () => {
           const rows = table.map((row) => row.slice(0, columns));
           const training = rows.slice(1);
           const query = rows[0];
-          const found = nearestNeighbours(
+          const found = nearestNeighbors(
             Float64Array.from(training.flat()),
             training.length,
             Float64Array.from(query),
@@ -62,7 +62,7 @@ describe("nearestNeighbours", () => {
             columns,
             Math.min(k, training.length),
           );
-          expect(Array.from(found)).toEqual(sortedNeighbours(training, query, Math.min(k, training.length)));
+          expect(Array.from(found)).toEqual(sortedNeighbors(training, query, Math.min(k, training.length)));
         },
       ),
       { numRuns: 300, seed: 20261201 },
@@ -70,11 +70,11 @@ describe("nearestNeighbours", () => {
   });
 });
 
-describe("KNearestNeighbours", () => {
+describe("KNearestNeighbors", () => {
   it("votes by class fractions and lets the lower class win a tied vote", () => {
     // 1-D training values 0, 1 (class 1) and 10, 11 (class 0); at x = 5.5 with k = 2 the nearest are
     // the values 1 and 10 (distance 4.5 each): one vote each, and class 0 wins the tied vote.
-    const model = new KNearestNeighbours({ neighbours: 2 }).fit(
+    const model = new KNearestNeighbors({ neighbors: 2 }).fit(
       {
         features: Float64Array.of(0, 1, 10, 11),
         rows: 4,
@@ -90,11 +90,11 @@ describe("KNearestNeighbours", () => {
   });
 
   it("uses every training row when they are fewer than k", () => {
-    const model = new KNearestNeighbours({ neighbours: 5 }).fit(
+    const model = new KNearestNeighbors({ neighbors: 5 }).fit(
       { features: Float64Array.of(0, 1, 2), rows: 3, columns: 1, labels: Int32Array.of(0, 1, 1), classCount: 3 },
       random,
     );
-    expect(model.neighbours).toBe(3);
+    expect(model.neighbors).toBe(3);
     const p = model.predictProbabilities(Float64Array.of(100), 1);
     expect(p[0]).toBeCloseTo(1 / 3, 15);
     expect(p[1]).toBeCloseTo(2 / 3, 15);
@@ -102,10 +102,10 @@ describe("KNearestNeighbours", () => {
   });
 
   it("resolves options and rejects bad ones", () => {
-    expect(resolveKnnOptions()).toEqual({ neighbours: 5 });
-    expect(() => resolveKnnOptions({ neighbours: 0 })).toThrow(UsageError);
-    expect(() => resolveKnnOptions({ neighbours: 2.5 })).toThrow(UsageError);
-    expect(new KNearestNeighbours().withOptions({ neighbours: 9 }).options.neighbours).toBe(9);
-    expect(() => new KNearestNeighbours().withOptions({ k: 9 })).toThrow(UsageError);
+    expect(resolveKnnOptions()).toEqual({ neighbors: 5 });
+    expect(() => resolveKnnOptions({ neighbors: 0 })).toThrow(UsageError);
+    expect(() => resolveKnnOptions({ neighbors: 2.5 })).toThrow(UsageError);
+    expect(new KNearestNeighbors().withOptions({ neighbors: 9 }).options.neighbors).toBe(9);
+    expect(() => new KNearestNeighbors().withOptions({ k: 9 })).toThrow(UsageError);
   });
 });

@@ -1,5 +1,5 @@
 import { describe, it, expect } from "vitest";
-import { KNearestNeighboursRegression } from "../../src/learners/knnRegression.js";
+import { KNearestNeighborsRegression } from "../../src/learners/knnRegression.js";
 import { RandomStream } from "../../src/random.js";
 import { DataError, UsageError } from "../../src/errors.js";
 import { diabetesSplit, largestDifference } from "./sklearnReference.js";
@@ -11,11 +11,11 @@ import { diabetesSplit, largestDifference } from "./sklearnReference.js";
  */
 const random = new RandomStream(20261201);
 
-describe("KNearestNeighboursRegression against scikit-learn's KNeighborsRegressor(5)", () => {
+describe("KNearestNeighborsRegression against scikit-learn's KNeighborsRegressor(5)", () => {
   it("diabetes: test predictions within 1e-8 (means of five targets)", () => {
     // Measured: 0 (the predictions are means of whole numbers, exact to the JSON's rounding).
     const { ref, training, testFeatures, testRows } = diabetesSplit();
-    const model = new KNearestNeighboursRegression().fit(training, random);
+    const model = new KNearestNeighborsRegression().fit(training, random);
     expect(
       largestDifference(model.predictValues(testFeatures, testRows.length), ref.knnRegression.predictions),
     ).toBeLessThan(1e-8);
@@ -28,7 +28,7 @@ describe("KNearestNeighboursRegression against scikit-learn's KNeighborsRegresso
     const sex = data.featureNames.indexOf("sex");
     const asText = (features: Float64Array) => features.map((v, i) => (i % data.columns === sex ? v - 1 : v));
     const categories = data.featureNames.map((name) => (name === "sex" ? ["1", "2"] : null));
-    const model = new KNearestNeighboursRegression().fit(
+    const model = new KNearestNeighborsRegression().fit(
       { ...training, features: asText(training.features), categories },
       random,
     );
@@ -37,25 +37,25 @@ describe("KNearestNeighboursRegression against scikit-learn's KNeighborsRegresso
   });
 });
 
-describe("KNearestNeighboursRegression", () => {
+describe("KNearestNeighborsRegression", () => {
   it("averages the k nearest targets, earlier rows winning ties", () => {
     // Training 0, 2, 4, 6 with targets 1, 2, 3, 4; at x = 3, k = 2: rows 1 and 2 (distance 1 each).
     // At x = 1 with k = 2: rows 0 and 1 tie at distance 1 → (1 + 2)/2.
-    const model = new KNearestNeighboursRegression({ neighbours: 2 }).fit(
+    const model = new KNearestNeighborsRegression({ neighbors: 2 }).fit(
       { features: Float64Array.of(0, 2, 4, 6), rows: 4, columns: 1, targets: Float64Array.of(1, 2, 3, 4) },
       random,
     );
     expect(Array.from(model.predictValues(Float64Array.of(3, 1, 100), 3))).toEqual([2.5, 1.5, 3.5]);
   });
 
-  it("rejects a non-finite target and a bad neighbour count", () => {
+  it("rejects a non-finite target and a bad neighbor count", () => {
     expect(() =>
-      new KNearestNeighboursRegression().fit(
+      new KNearestNeighborsRegression().fit(
         { features: Float64Array.of(0, 1), rows: 2, columns: 1, targets: Float64Array.of(1, NaN) },
         random,
       ),
     ).toThrow(DataError);
-    expect(() => new KNearestNeighboursRegression({ neighbours: 0 })).toThrow(UsageError);
-    expect(new KNearestNeighboursRegression().withOptions({ neighbours: 3 }).options.neighbours).toBe(3);
+    expect(() => new KNearestNeighborsRegression({ neighbors: 0 })).toThrow(UsageError);
+    expect(new KNearestNeighborsRegression().withOptions({ neighbors: 3 }).options.neighbors).toBe(3);
   });
 });

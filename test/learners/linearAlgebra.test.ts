@@ -37,7 +37,7 @@ const spd = fc
 describe("Cholesky", () => {
   it("factors and solves a hand-worked 3 × 3 system", () => {
     // A = [[4, 12, −16], [12, 37, −43], [−16, −43, 98]] = L Lᵀ with L = [[2, 0, 0], [6, 1, 0], [−8, 5, 3]]
-    // (the classic example of the Cholesky factorisation); A·(1, 2, 3) = (−20, −43, 192).
+    // (the classic example of the Cholesky factorization); A·(1, 2, 3) = (−20, −43, 192).
     const a = Float64Array.of(4, 12, -16, 12, 37, -43, -16, -43, 98);
     const factor = a.slice();
     expect(choleskyInPlace(factor, 3)).toBe(true);

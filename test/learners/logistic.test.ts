@@ -151,9 +151,9 @@ describe("LogisticRegression", () => {
     expect(Array.from(model.classes)).toEqual([0, 2]);
     expect(model.coefficients.length).toBe(d.columns);
     const probabilities = model.predictProbabilities(d.features, d.rows);
-    // The same rows relabelled 0/1 with two classes give the same model.
-    const relabelled = { ...set, labels: set.labels.map((c) => (c === 2 ? 1 : 0)), classCount: 2 };
-    const twoClass = new LogisticRegression(tight).fit(relabelled, random);
+    // The same rows relabeled 0/1 with two classes give the same model.
+    const relabeled = { ...set, labels: set.labels.map((c) => (c === 2 ? 1 : 0)), classCount: 2 };
+    const twoClass = new LogisticRegression(tight).fit(relabeled, random);
     const twoClassProbabilities = twoClass.predictProbabilities(d.features, d.rows);
     for (let i = 0; i < d.rows; i++) {
       expect(probabilities[i * 3 + 1]).toBe(0);

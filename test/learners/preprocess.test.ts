@@ -140,7 +140,7 @@ describe("fitPreprocessor", () => {
             for (let i = 0; i < rows; i++) variance += (out[i * columns + j] - mean) ** 2 / rows;
             expect(Number.isFinite(mean)).toBe(true);
             expect(Math.abs(mean)).toBeLessThan(1e-6);
-            // Either standardized (variance 1) or constant and only centred (variance ~0).
+            // Either standardized (variance 1) or constant and only centered (variance ~0).
             expect(Math.min(Math.abs(variance - 1), variance)).toBeLessThan(1e-6);
           }
         },

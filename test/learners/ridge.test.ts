@@ -44,7 +44,7 @@ describe("RidgeRegression against scikit-learn's Ridge(alpha=1)", () => {
 
 describe("RidgeRegression", () => {
   it("solves a one-feature problem by hand", () => {
-    // x = 1, 2, 3 → z = (x − 2)/√(2/3) = −√1.5, 0, √1.5; y = 3, 5, 7 → centred −2, 0, 2.
+    // x = 1, 2, 3 → z = (x − 2)/√(2/3) = −√1.5, 0, √1.5; y = 3, 5, 7 → centered −2, 0, 2.
     // Σz² = 3, Σz·y = 2·√1.5·2 = 4√1.5; w = 4√1.5/(3 + α); b = 5.
     for (const alpha of [0, 1, 10]) {
       const model = new RidgeRegression({ alpha }).fit(

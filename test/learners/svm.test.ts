@@ -50,7 +50,7 @@ describe("LinearSvm against scikit-learn's LinearSVC(loss='hinge')", () => {
 describe("LinearSvm", () => {
   it("finds the maximum-margin separator of a separable toy problem", () => {
     // 1-D, standardized by the preprocessor: values −2, −1 (class 0) and 1, 2 (class 1) have mean 0
-    // and scale √2.5, so z = ±1/√2.5, ±2/√2.5. With the intercept penalised as a weight on a constant
+    // and scale √2.5, so z = ±1/√2.5, ±2/√2.5. With the intercept penalized as a weight on a constant
     // 1 and C large, the optimum of ½(w² + b²) subject to y(wz + b) ≥ 1 is b = 0, w = √2.5 (the two
     // inner points on the margin), so the score of x is x itself.
     const model = new LinearSvm({ C: 1e6, tolerance: 1e-10, maxIterations: 100_000 }).fit(

@@ -240,7 +240,7 @@ describe("learningCurveChart", () => {
     for (const label of ["Today", "+1 run", "+2 runs", "+3 runs", "+4 runs", "Target 85%"]) {
       expect(svg).toContain(`>${label}</text>`);
     }
-    // The y axis is named in words and labelled in percent.
+    // The y axis is named in words and labeled in percent.
     expect(svg).toContain(">Accuracy</text>");
     expect(svg).toContain(">80%</text>");
     expect(svg).toContain(">Training samples</text>");
@@ -295,9 +295,9 @@ describe("learningCurveChart", () => {
     expect(svg).toContain(">0.20</text>");
   });
 
-  it("colours the series with the palette, whose hues are Okabe–Ito's", () => {
-    const colour = layers.find((l) => l.encoding?.color?.field === "series")!.encoding!.color;
-    expect(colour.scale!.range).toEqual([palette.fit, palette.ink, palette.curve, palette.band]);
+  it("colors the series with the palette, whose hues are Okabe–Ito's", () => {
+    const color = layers.find((l) => l.encoding?.color?.field === "series")!.encoding!.color;
+    expect(color.scale!.range).toEqual([palette.fit, palette.ink, palette.curve, palette.band]);
     // Each layer's data names its series, so the legend lists the four in this order.
     const seriesOf = (type: string) => layers.find((l) => l.mark.type === type)!.data!.values[0].series;
     expect([seriesOf("circle"), seriesOf("point"), seriesOf("line"), seriesOf("area")]).toEqual([

@@ -2,7 +2,7 @@
  * A small PNG reader for the tests, written from the PNG specification (W3C, Portable Network
  * Graphics Specification, 2nd edition): the signature, IHDR, the IDAT stream inflated with zlib, and
  * the five scanline filters (None, Sub, Up, Average, Paeth). It reads only what resvg writes:
- * 8-bit RGBA (colour type 6) or RGB (colour type 2), not interlaced. It checks the file on its own,
+ * 8-bit RGBA (color type 6) or RGB (color type 2), not interlaced. It checks the file on its own,
  * independently of the library that wrote it.
  */
 import { inflateSync } from "node:zlib";
@@ -32,11 +32,11 @@ export function decodePng(bytes: Uint8Array): DecodedPng {
     if (type === "IHDR") {
       width = body.readUInt32BE(0);
       height = body.readUInt32BE(4);
-      const [bitDepth, colourType, , , interlace] = [body[8], body[9], body[10], body[11], body[12]];
-      if (bitDepth !== 8 || interlace !== 0 || (colourType !== 6 && colourType !== 2)) {
-        throw new Error(`unsupported PNG: depth ${bitDepth}, colour type ${colourType}, interlace ${interlace}`);
+      const [bitDepth, colorType, , , interlace] = [body[8], body[9], body[10], body[11], body[12]];
+      if (bitDepth !== 8 || interlace !== 0 || (colorType !== 6 && colorType !== 2)) {
+        throw new Error(`unsupported PNG: depth ${bitDepth}, color type ${colorType}, interlace ${interlace}`);
       }
-      channels = colourType === 6 ? 4 : 3;
+      channels = colorType === 6 ? 4 : 3;
     } else if (type === "IDAT") {
       idat.push(body);
     } else if (type === "IEND") {

@@ -1,6 +1,6 @@
 /**
  * Tests of the report's files for slides and spreadsheets: the list `reportFiles` returns, each chart
- * drawn to SVG by vega in Node, and each SVG rasterised to PNG by resvg with readable text.
+ * drawn to SVG by vega in Node, and each SVG rasterized to PNG by resvg with readable text.
  *
  * The PNG files are read back with a PNG reader written here from the specification (./png.ts), so
  * the check does not trust the library that wrote them. "Readable text" is checked by drawing: the
@@ -48,7 +48,7 @@ describe("chartSvg and chartPng", () => {
     expect(svg).toContain(">Target 85%</text>");
   });
 
-  it("rasterises it at twice its size, with the title drawn in the fonts given", async () => {
+  it("rasterizes it at twice its size, with the title drawn in the fonts given", async () => {
     const svg = await chartSvg(spec);
     const { width, height } = svgSize(svg);
     const fonts = findChartFonts();

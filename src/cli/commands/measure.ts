@@ -9,7 +9,7 @@ import { availableParallelism } from "node:os";
 
 export function measureCommand(io: CliIo): Command {
   return new Command("measure")
-    .description("measure the learning curve of a labelled CSV by repeated cross-validated subsampling")
+    .description("measure the learning curve of a labeled CSV by repeated cross-validated subsampling")
     .argument("<data>", "CSV file with a header row")
     .requiredOption(
       "--label <column>",

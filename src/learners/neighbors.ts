@@ -1,9 +1,9 @@
 /**
- * Exact k-nearest-neighbour search in Euclidean distance, shared by the k-NN classifier and regressor.
+ * Exact k-nearest-neighbor search in Euclidean distance, shared by the k-NN classifier and regressor.
  *
  * For each query row it scans the training rows in order and keeps the k smallest squared distances
  * in a sorted list; a training row enters only when strictly nearer than the current k-th, so among
- * rows at the same distance the earlier training row wins, as in scikit-learn's neighbour heaps. A
+ * rows at the same distance the earlier training row wins, as in scikit-learn's neighbor heaps. A
  * row's distance sum stops as soon as it exceeds the current k-th distance (the sum of squares only
  * grows, so this never changes the result).
  *
@@ -16,10 +16,10 @@
  * The k nearest training rows of each query row.
  * @param training row-major `trainingRows × columns`
  * @param queries row-major `queryRows × columns`
- * @param k neighbours per query, at most `trainingRows`
+ * @param k neighbors per query, at most `trainingRows`
  * @returns row-major `queryRows × k` training row indices, nearest first (ties: lower index first)
  */
-export function nearestNeighbours(
+export function nearestNeighbors(
   training: Float64Array,
   trainingRows: number,
   queries: Float64Array,

@@ -26,7 +26,7 @@
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
-import { choleskyInPlace, choleskySolveInPlace, linearScores, minimumNormSolve } from "./linearAlgebra.js";
+import { choleskyInPlace, choleskySolveInPlace, linearScores, minimumNormSolve } from "../numerics/linearAlgebra.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames } from "./settings.js";
 import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";

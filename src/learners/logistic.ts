@@ -47,6 +47,7 @@ import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { scratchDoubles, scratchIntegers } from "./scratch.js";
+import { choleskyInPlace, choleskySolveInPlace } from "../numerics/linearAlgebra.js";
 import { checkSettingNames } from "./settings.js";
 import { SoftmaxLoss } from "./softmaxKernel.js";
 
@@ -497,50 +498,30 @@ function decreasedLittle(before: number, after: number, relativeDecrease: number
 
 /**
  * Solves A x = b for a symmetric positive definite `m × m` matrix A (row-major, exactly symmetric) by
- * Cholesky decomposition A = L Lᵀ. Should rounding make a pivot non-positive, it retries with a small
- * multiple of the identity added, growing tenfold each time (Levenberg's damping). `l` (m × m values)
- * receives the factor.
+ * Cholesky decomposition A = L Lᵀ into `factor`. Should rounding make a pivot non-positive, it retries
+ * with a small multiple of the identity added, growing tenfold each time (Levenberg's damping).
  * @throws FitError when even a damped matrix cannot be decomposed (a NaN or Infinity in A).
  */
-function solveSymmetricPositive(a: Float64Array, m: number, b: Float64Array, x: Float64Array, l: Float64Array): void {
+function solveSymmetricPositive(
+  a: Float64Array,
+  m: number,
+  b: Float64Array,
+  x: Float64Array,
+  factor: Float64Array,
+): void {
   let largestDiagonal = 0;
   for (let j = 0; j < m; j++) largestDiagonal = Math.max(largestDiagonal, Math.abs(a[j * m + j]));
   let damping = 0;
   for (let attempt = 0; attempt < 20; attempt++) {
-    if (cholesky(a, m, damping, l)) {
-      // Forward substitution L u = b, then back substitution Lᵀ x = u.
-      for (let i = 0; i < m; i++) {
-        let s = b[i];
-        for (let k = 0; k < i; k++) s -= l[i * m + k] * x[k];
-        x[i] = s / l[i * m + i];
-      }
-      for (let i = m - 1; i >= 0; i--) {
-        let s = x[i];
-        for (let k = i + 1; k < m; k++) s -= l[k * m + i] * x[k];
-        x[i] = s / l[i * m + i];
-      }
+    factor.set(a);
+    if (choleskyInPlace(factor, m, damping)) {
+      x.set(b);
+      choleskySolveInPlace(factor, m, x);
       return;
     }
     damping = damping === 0 ? 1e-12 * Math.max(largestDiagonal, 1e-300) : damping * 10;
   }
   throw new FitError("logistic: the Newton step could not be solved (the Hessian is not finite)");
-}
-
-/** Cholesky factor of A + damping·I into `l` (lower triangle); false when a pivot is not positive. */
-function cholesky(a: Float64Array, m: number, damping: number, l: Float64Array): boolean {
-  for (let j = 0; j < m; j++) {
-    let s = a[j * m + j] + damping;
-    for (let k = 0; k < j; k++) s -= l[j * m + k] * l[j * m + k];
-    if (!(s > 0)) return false;
-    const pivot = Math.sqrt(s);
-    l[j * m + j] = pivot;
-    for (let i = j + 1; i < m; i++) {
-      let t = a[i * m + j];
-      for (let k = 0; k < j; k++) t -= l[i * m + k] * l[j * m + k];
-      l[i * m + j] = t / pivot;
-    }
-  }
-  return true;
 }
 
 /**

@@ -17,7 +17,7 @@
  */
 import type { RandomStream } from "../random.js";
 import type { FittedRegressionModel, LearnerSettings, RegressionLearner, RegressionTrainingSet } from "./learner.js";
-import { choleskyInPlace, choleskySolveInPlace, minimumNormSolve } from "./linearAlgebra.js";
+import { choleskyInPlace, choleskySolveInPlace, minimumNormSolve } from "../numerics/linearAlgebra.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, nonNegative } from "./settings.js";
 import { checkRegressionSet } from "./trainingChecks.js";

@@ -31,7 +31,7 @@
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
-import { linearScores } from "./linearAlgebra.js";
+import { linearScores } from "../numerics/linearAlgebra.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, positive, wholeNumber } from "./settings.js";
 import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";

@@ -1,24 +1,27 @@
 /**
- * The dense linear algebra the learners need, on row-major Float64Arrays: the Cholesky factorisation
- * of a symmetric positive-definite matrix and its solves (ridge regression, linear discriminant
- * analysis), and a minimum-norm solve by symmetric eigendecomposition for the rare singular case.
+ * The dense linear algebra of the learners and the curve fitter, on row-major Float64Arrays: the
+ * Cholesky factorisation of a symmetric positive-definite matrix (optionally damped) and its solves
+ * (ridge regression, linear discriminant analysis, the logistic Newton step, Levenberg–Marquardt), the
+ * Gram matrix of a block of rows (the learners' n-dimensional forms for wide data), and a minimum-norm
+ * solve by symmetric eigendecomposition for the rare singular case.
  *
  * Written by hand: ml-matrix's element access is about four times slower than raw Float64Array loops
  * (measured for the project's package notes), and its Cholesky wants an exactly symmetric matrix.
  */
 
 /**
- * Overwrites the lower triangle of the symmetric `n × n` matrix `a` with its Cholesky factor L
- * (a = L Lᵀ; Golub and Van Loan, "Matrix Computations", algorithm 4.2.1). Only the lower triangle is
- * read. Returns false, leaving `a` partly overwritten, when a pivot is not positive: the matrix is not
- * positive definite to working precision.
+ * Overwrites the lower triangle of the symmetric `n × n` matrix `a` with the Cholesky factor L of
+ * a + damping·I (= L Lᵀ; Golub and Van Loan, "Matrix Computations", algorithm 4.2.1). Only the lower
+ * triangle is read. Returns false, leaving `a` partly overwritten, when a pivot is at most
+ * `pivotFloor`: the matrix is not positive definite to working precision (a caller that scaled it to
+ * a unit diagonal may ask for a floor above round-off).
  */
-export function choleskyInPlace(a: Float64Array, n: number): boolean {
+export function choleskyInPlace(a: Float64Array, n: number, damping = 0, pivotFloor = 0): boolean {
   for (let j = 0; j < n; j++) {
     const rowJ = j * n;
-    let d = a[rowJ + j];
+    let d = a[rowJ + j] + damping;
     for (let k = 0; k < j; k++) d -= a[rowJ + k] * a[rowJ + k];
-    if (!(d > 0)) return false;
+    if (!(d > pivotFloor)) return false;
     const pivot = Math.sqrt(d);
     a[rowJ + j] = pivot;
     for (let i = j + 1; i < n; i++) {

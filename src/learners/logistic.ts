@@ -46,6 +46,7 @@ import { DataError, FitError, UsageError } from "../errors.js";
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
+import { rowSpace, wideEnough } from "./rowSpace.js";
 import { scratchDoubles, scratchIntegers } from "./scratch.js";
 import { choleskyInPlace, choleskySolveInPlace } from "../numerics/linearAlgebra.js";
 import { checkSettingNames } from "./settings.js";
@@ -160,11 +161,23 @@ export class LogisticRegression implements Learner {
     const y = scratchIntegers("logistic.labels", rows);
     for (let i = 0; i < rows; i++) y[i] = position[labels[i]];
 
-    const start = previous instanceof FittedLogistic ? warmStart(previous, preprocessor, classes) : undefined;
-    const fitted =
-      present.length === 2
-        ? fitBinary(x, y, rows, width, this.options, start)
-        : fitMultinomial(x, y, rows, width, present.length, this.options, start);
+    let fitted: LinearFit;
+    if (wideEnough(rows, width)) {
+      // More columns than rows: the same fit in the rows' own space (rowSpace.ts), from zero, judged
+      // by the gradient's Euclidean length (rotation-invariant, at least its largest entry).
+      const space = rowSpace(x, rows, width);
+      const reduced =
+        present.length === 2
+          ? fitBinary(space.features, y, rows, space.rank, this.options, undefined, true)
+          : fitMultinomial(space.features, y, rows, space.rank, present.length, this.options, undefined, true);
+      fitted = { ...reduced, coefficients: space.lift(reduced.coefficients, reduced.intercepts.length) };
+    } else {
+      const start = previous instanceof FittedLogistic ? warmStart(previous, preprocessor, classes) : undefined;
+      fitted =
+        present.length === 2
+          ? fitBinary(x, y, rows, width, this.options, start)
+          : fitMultinomial(x, y, rows, width, present.length, this.options, start);
+    }
     return new FittedLogistic(
       classCount,
       columns,
@@ -322,6 +335,11 @@ function maxAbs(v: Float64Array): number {
   return m;
 }
 
+/** The gradient's largest entry in absolute value, or its Euclidean length when `euclidean`. */
+function gradientSize(v: Float64Array, euclidean: boolean): number {
+  return euclidean ? Math.sqrt(dot(v, v)) : maxAbs(v);
+}
+
 function dot(a: Float64Array, b: Float64Array): number {
   let s = 0;
   for (let i = 0; i < a.length; i++) s += a[i] * b[i];
@@ -341,6 +359,7 @@ function fitBinary(
   p: number,
   options: ResolvedLogisticOptions,
   start?: Float64Array,
+  euclidean = false,
 ): LinearFit {
   const m = p + 1;
   const lambda = 1 / (options.C * n);
@@ -366,7 +385,7 @@ function fitBinary(
   let iterations = 0;
   let converged = false;
   for (;;) {
-    if (maxAbs(gradient) <= gradientBound) {
+    if (gradientSize(gradient, euclidean) <= gradientBound) {
       converged = true;
       break;
     }
@@ -411,10 +430,10 @@ function fitBinary(
     // No acceptable step even a millionth of a Newton step long: nothing more to gain.
     if (!accepted) {
       objective(theta, gradient);
-      converged = maxAbs(gradient) <= gradientBound;
+      converged = gradientSize(gradient, euclidean) <= gradientBound;
       break;
     }
-    if (maxAbs(gradient) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
+    if (gradientSize(gradient, euclidean) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
       converged = true;
       break;
     }
@@ -550,11 +569,12 @@ function fitMultinomial(
   classes: number,
   options: ResolvedLogisticOptions,
   start?: Float64Array,
+  euclidean = false,
 ): LinearFit {
   const stride = p + 1;
   const size = classes * stride;
   const objective = new MultinomialObjective(new SoftmaxLoss(x, y, n, p, classes), n, p, classes, 1 / (options.C * n));
-  const result = minimizeLbfgs(objective, start ?? new Float64Array(size), n, options);
+  const result = minimizeLbfgs(objective, start ?? new Float64Array(size), n, options, euclidean);
   const theta = result.solution;
   const coefficients = new Float64Array(classes * p);
   const intercepts = new Float64Array(classes);
@@ -626,6 +646,7 @@ function minimizeLbfgs(
   start: Float64Array,
   n: number,
   options: ResolvedLogisticOptions,
+  euclidean: boolean,
   memory = 10,
 ): { solution: Float64Array; iterations: number; converged: boolean } {
   const gradientBound = options.tolerance / n;
@@ -661,7 +682,7 @@ function minimizeLbfgs(
   let justReset = false;
 
   for (;;) {
-    if (maxAbs(gradient) <= gradientBound) {
+    if (gradientSize(gradient, euclidean) <= gradientBound) {
       converged = true;
       break;
     }
@@ -753,7 +774,7 @@ function minimizeLbfgs(
     trialGradient = swapGradient;
     const fPrevious = f;
     f = fTrial;
-    if (maxAbs(gradient) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
+    if (gradientSize(gradient, euclidean) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
       converged = true;
       break;
     }

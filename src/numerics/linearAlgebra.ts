@@ -144,3 +144,125 @@ export function linearScores(
   }
   return out;
 }
+
+/**
+ * The Gram matrix X Xᵀ of the `n × p` row-major block `x`, into `out` (`n × n`, row-major, both
+ * triangles): the inner products of every pair of rows. Four rows at a time, so that each value of
+ * the other row is read once for four products.
+ */
+export function gramMatrix(x: Float64Array, n: number, p: number, out: Float64Array = new Float64Array(n * n)): Float64Array {
+  let i = 0;
+  for (; i + 3 < n; i += 4) {
+    for (let k = 0; k <= i + 3; k++) gramFourRows(x, p, i, k, n, out);
+  }
+  for (; i < n; i++) {
+    for (let k = 0; k <= i; k++) {
+      const v = rowDot(x, p, i, k);
+      out[i * n + k] = v;
+      out[k * n + i] = v;
+    }
+  }
+  return out;
+}
+
+/** The inner products of rows i .. i + 3 with row k into `out` (both triangles; rows above k skipped). */
+function gramFourRows(x: Float64Array, p: number, i: number, k: number, n: number, out: Float64Array): void {
+  const a0 = i * p;
+  const a1 = a0 + p;
+  const a2 = a1 + p;
+  const a3 = a2 + p;
+  const c = k * p;
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  for (let j = 0; j < p; j++) {
+    const v = x[c + j];
+    s0 += x[a0 + j] * v;
+    s1 += x[a1 + j] * v;
+    s2 += x[a2 + j] * v;
+    s3 += x[a3 + j] * v;
+  }
+  const sums = [s0, s1, s2, s3];
+  for (let r = 0; r < 4; r++) {
+    if (i + r < k) continue;
+    out[(i + r) * n + k] = sums[r];
+    out[k * n + i + r] = sums[r];
+  }
+}
+
+function rowDot(x: Float64Array, p: number, i: number, k: number): number {
+  const a = i * p;
+  const b = k * p;
+  let s0 = 0;
+  let s1 = 0;
+  let j = 0;
+  for (; j + 1 < p; j += 2) {
+    s0 += x[a + j] * x[b + j];
+    s1 += x[a + j + 1] * x[b + j + 1];
+  }
+  if (j < p) s0 += x[a + j] * x[b + j];
+  return s0 + s1;
+}
+
+/** A factor of a symmetric positive-semidefinite matrix K = F Fᵀ from {@link pivotedCholesky}. */
+export interface PivotedCholesky {
+  /** Numerical rank r: the number of pivots above the tolerance. */
+  rank: number;
+  /** F, row-major `n × rank`, in the rows' original order: K ≈ F Fᵀ. */
+  factor: Float64Array;
+  /** The rows chosen as pivots, in order: rows `pivots[0 .. rank − 1]` of F form a lower-triangular block. */
+  pivots: Int32Array;
+}
+
+/**
+ * Cholesky factorisation with diagonal pivoting of a symmetric positive-semidefinite `n × n` matrix
+ * (Higham, "Accuracy and Stability of Numerical Algorithms", 2nd ed., algorithm 10.22; LAPACK's
+ * dpstrf): at each step the largest remaining diagonal entry is the pivot, and the factorisation
+ * stops when it is at most `relativeTolerance` · the largest diagonal entry of K (dpstrf's default
+ * is n · ε), the rest of K being treated as round-off. Reads only `k`.
+ */
+export function pivotedCholesky(k: Float64Array, n: number, relativeTolerance = n * Number.EPSILON): PivotedCholesky {
+  const remaining = new Float64Array(n);
+  let largest = 0;
+  for (let i = 0; i < n; i++) {
+    remaining[i] = k[i * n + i];
+    largest = Math.max(largest, remaining[i]);
+  }
+  const tolerance = relativeTolerance * largest;
+  // Columns of F as they are found, column-major (column c holds n values).
+  const columns = new Float64Array(n * n);
+  const pivots = new Int32Array(n);
+  const chosen = new Uint8Array(n);
+  let rank = 0;
+  for (; rank < n; rank++) {
+    let q = -1;
+    let best = tolerance;
+    for (let i = 0; i < n; i++) {
+      if (chosen[i] === 0 && remaining[i] > best) {
+        best = remaining[i];
+        q = i;
+      }
+    }
+    if (q < 0) break;
+    chosen[q] = 1;
+    pivots[rank] = q;
+    const pivot = Math.sqrt(best);
+    const column = rank * n;
+    for (let i = 0; i < n; i++) {
+      if (chosen[i] === 1 && i !== q) {
+        columns[column + i] = 0;
+        continue;
+      }
+      let s = k[i * n + q];
+      for (let c = 0; c < rank; c++) s -= columns[c * n + i] * columns[c * n + q];
+      columns[column + i] = i === q ? pivot : s / pivot;
+    }
+    for (let i = 0; i < n; i++) {
+      if (chosen[i] === 0) remaining[i] -= columns[column + i] * columns[column + i];
+    }
+  }
+  const factor = new Float64Array(n * rank);
+  for (let i = 0; i < n; i++) for (let c = 0; c < rank; c++) factor[i * rank + c] = columns[c * n + i];
+  return { rank, factor, pivots: pivots.slice(0, rank) };
+}

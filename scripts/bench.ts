@@ -63,7 +63,35 @@ function openData(name: string): string {
   return file;
 }
 
-function runHeadroom(file: string, workers: number, trainingSizes: number[]): Side {
+/**
+ * Wide data, as from gene-expression or spectra panels: `informative` of the feature columns carry
+ * the class (centres drawn once, 0.6 apart on average), the rest are noise; every value has unit
+ * noise. Values written with 4 decimals.
+ */
+function generatedWide(
+  name: string,
+  rows: number,
+  features: number,
+  classes: number,
+  informative: number,
+  seed: number,
+): string {
+  const random = new RandomStream(seed);
+  const centres = Array.from({ length: classes }, () =>
+    Array.from({ length: features }, (_, j) => (j < informative ? 0.6 * random.normal() : 0)),
+  );
+  const lines = [[...Array.from({ length: features }, (_, j) => `x${j}`), "class"].join(",")];
+  for (let i = 0; i < rows; i++) {
+    const k = i % classes;
+    const values = centres[k].map((c) => (c + random.normal()).toFixed(4));
+    lines.push([...values, `c${k}`].join(","));
+  }
+  const file = join(work, `${name}.csv`);
+  writeFileSync(file, `${lines.join("\n")}\n`);
+  return file;
+}
+
+function runHeadroom(file: string, workers: number, trainingSizes: number[], extra: string[] = []): Side {
   const out = join(work, "curve.json");
   const args = [
     "--import",
@@ -84,6 +112,7 @@ function runHeadroom(file: string, workers: number, trainingSizes: number[]): Si
     "--quiet",
     "--out",
     out,
+    ...extra,
   ];
   const started = process.hrtime.bigint();
   const result = spawnSync(process.execPath, args, { encoding: "utf8" });
@@ -101,10 +130,10 @@ function runHeadroom(file: string, workers: number, trainingSizes: number[]): Si
   };
 }
 
-function runScikitLearn(file: string): ScikitLearnSide {
+function runScikitLearn(file: string, extra: string[] = []): ScikitLearnSide {
   const script = join(packageRoot, "scripts", "bench", "sklearn_learning_curve.py");
   const started = process.hrtime.bigint();
-  const result = spawnSync(python, [script, file], { encoding: "utf8" });
+  const result = spawnSync(python, [script, file, ...extra], { encoding: "utf8" });
   const seconds = Number(process.hrtime.bigint() - started) / 1e9;
   if (result.status !== 0) throw new Error(`scikit-learn failed on ${file}: ${result.stderr}`);
   const parsed = JSON.parse(result.stdout) as Omit<ScikitLearnSide, "seconds">;
@@ -129,6 +158,14 @@ const sets: [string, () => string][] = [
   ["gaussian (20000×16, 26 classes)", () => generated("gaussian-20k", 20000, 16, 26, 2)],
 ];
 
+/** The wide sets: names contain "wide" for BENCH_ONLY. */
+const wideSets: [string, () => string][] = [
+  ["wide (120×2000, 2 classes)", () => generatedWide("wide-120", 120, 2000, 2, 40, 3)],
+  ["wide (240×5000, 2 classes)", () => generatedWide("wide-240", 240, 5000, 2, 40, 4)],
+  ["wide (150×2000, 3 classes)", () => generatedWide("wide-150-3", 150, 2000, 3, 40, 5)],
+];
+const wideLearners = (process.env.BENCH_LEARNERS ?? "logistic,lda,naive-bayes,knn,svm,forest").split(",");
+
 const check = spawnSync(python, ["-c", "import sklearn; print(sklearn.__version__)"], { encoding: "utf8" });
 if (check.status !== 0) {
   process.stderr.write("bench: needs Debian's python3-sklearn (apt-get install python3-sklearn)\n");
@@ -146,6 +183,19 @@ if (check.status !== 0) {
   for (const [name, make] of sets) {
     if (only && !only.some((word) => name.toLowerCase().includes(word))) continue;
     runSet(name, make);
+  }
+  const wideWanted = wideSets.filter(([name]) => !only || only.some((word) => name.toLowerCase().includes(word)));
+  if (wideWanted.length > 0) {
+    process.stdout.write(
+      "\nWide data, one worker, each learner with scikit-learn's counterpart (--tune: GridSearchCV inside learning_curve)\n" +
+        "data set | learner | sklearn s | headroom 1w s | ratio 1w | sklearn CPU s | headroom CPU s | CPU ratio | " +
+        "sklearn MiB | headroom MiB | memory ratio | max |Δ mean score| | load after\n",
+    );
+  }
+  for (const [name, make] of wideWanted) {
+    const file = make();
+    for (const learner of wideLearners) runWide(name, file, learner, false);
+    if (name.includes("120×2000, 2")) runWide(name, file, "logistic", true);
   }
 }
 rmSync(work, { recursive: true, force: true });
@@ -183,6 +233,37 @@ function runSet(name: string, make: () => string): void {
       (peakHeadroom / s.peakMemoryKiB).toFixed(2),
       delta.toFixed(3),
       identical ? "yes" : "NO",
+      load(),
+    ].join(" | ") + "\n",
+  );
+}
+
+/** One learner on one wide set, one worker, both sides; prints its row. */
+function runWide(name: string, file: string, learner: string, tune: boolean): void {
+  const skArgs = ["--learner", learner, ...(tune ? ["--tune"] : [])];
+  const sk: ScikitLearnSide[] = [];
+  const one: Side[] = [];
+  for (let run = 0; run < runs; run++) {
+    sk.push(runScikitLearn(file, skArgs));
+    one.push(runHeadroom(file, 1, sk[0].trainingSizes, ["--learner", learner, ...(tune ? ["--tune"] : [])]));
+  }
+  const s = fastest(sk);
+  const h = fastest(one);
+  const delta = Math.max(...s.meanScores.map((v, i) => Math.abs(v - h.meanScores[i])));
+  process.stdout.write(
+    [
+      name,
+      tune ? `${learner} --tune` : learner,
+      s.seconds.toFixed(2),
+      h.seconds.toFixed(2),
+      (h.seconds / s.seconds).toFixed(2),
+      s.cpuSeconds.toFixed(2),
+      h.cpuSeconds.toFixed(2),
+      (h.cpuSeconds / s.cpuSeconds).toFixed(2),
+      (s.peakMemoryKiB / 1024).toFixed(0),
+      (h.peakMemoryKiB / 1024).toFixed(0),
+      (h.peakMemoryKiB / s.peakMemoryKiB).toFixed(2),
+      delta.toFixed(3),
       load(),
     ].join(" | ") + "\n",
   );

@@ -164,11 +164,13 @@ export class LogisticRegression implements Learner {
     let fitted: LinearFit;
     if (wideEnough(rows, width)) {
       // More columns than rows: the same fit in the rows' own space (rowSpace.ts), from zero, judged
-      // by the gradient's Euclidean length (rotation-invariant, at least its largest entry).
+      // by the gradient's Euclidean length (rotation-invariant, at least its largest entry). There
+      // the Newton step would cost n·r² per iteration against n·r for L-BFGS's, so two classes take
+      // L-BFGS too, as scikit-learn's lbfgs does.
       const space = rowSpace(x, rows, width);
       const reduced =
         present.length === 2
-          ? fitBinary(space.features, y, rows, space.rank, this.options, undefined, true)
+          ? fitBinaryLbfgs(space.features, y, rows, space.rank, this.options)
           : fitMultinomial(space.features, y, rows, space.rank, present.length, this.options, undefined, true);
       fitted = { ...reduced, coefficients: space.lift(reduced.coefficients, reduced.intercepts.length) };
     } else {
@@ -433,7 +435,10 @@ function fitBinary(
       converged = gradientSize(gradient, euclidean) <= gradientBound;
       break;
     }
-    if (gradientSize(gradient, euclidean) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
+    if (
+      gradientSize(gradient, euclidean) > gradientBound &&
+      decreasedLittle(fPrevious, f, options.relativeDecrease, n)
+    ) {
       converged = true;
       break;
     }
@@ -444,6 +449,45 @@ function fitBinary(
     iterations,
     converged,
   };
+}
+
+/**
+ * The binary model of {@link fitBinary} fitted by L-BFGS instead of Newton's method (for the
+ * row-space form of wide data, where an iteration of L-BFGS is much cheaper than a Newton step),
+ * from zero, with the Euclidean gradient test.
+ */
+function fitBinaryLbfgs(
+  x: Float64Array,
+  y: Int32Array,
+  n: number,
+  p: number,
+  options: ResolvedLogisticOptions,
+): LinearFit {
+  const objective = new BinaryObjective(x, y, n, p, 1 / (options.C * n), scratchDoubles("logistic.weights", n));
+  const result = minimizeLbfgs(objective, new Float64Array(p + 1), n, options, true);
+  const theta = result.solution;
+  return {
+    coefficients: theta.slice(0, p),
+    intercepts: Float64Array.of(theta[p]),
+    iterations: result.iterations,
+    converged: result.converged,
+  };
+}
+
+/** {@link binaryObjective} as an {@link Objective} (a class, not a closure: see {@link MultinomialObjective}). */
+class BinaryObjective implements Objective {
+  constructor(
+    private readonly x: Float64Array,
+    private readonly y: Int32Array,
+    private readonly n: number,
+    private readonly p: number,
+    private readonly lambda: number,
+    private readonly weights: Float64Array,
+  ) {}
+
+  evaluate(theta: Float64Array, gradient: Float64Array): number {
+    return binaryObjective(this.x, this.y, this.n, this.p, this.lambda, theta, gradient, this.weights);
+  }
 }
 
 /**
@@ -774,7 +818,10 @@ function minimizeLbfgs(
     trialGradient = swapGradient;
     const fPrevious = f;
     f = fTrial;
-    if (gradientSize(gradient, euclidean) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
+    if (
+      gradientSize(gradient, euclidean) > gradientBound &&
+      decreasedLittle(fPrevious, f, options.relativeDecrease, n)
+    ) {
       converged = true;
       break;
     }

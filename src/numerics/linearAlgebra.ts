@@ -147,48 +147,69 @@ export function linearScores(
 
 /**
  * The Gram matrix X Xᵀ of the `n × p` row-major block `x`, into `out` (`n × n`, row-major, both
- * triangles): the inner products of every pair of rows. Four rows at a time, so that each value of
- * the other row is read once for four products.
+ * triangles): the inner products of every pair of rows. Blocks of four rows against two, so that
+ * each value read serves several products (the benchmark's wide sets spend most of a logistic fit
+ * here).
  */
-export function gramMatrix(x: Float64Array, n: number, p: number, out: Float64Array = new Float64Array(n * n)): Float64Array {
+export function gramMatrix(
+  x: Float64Array,
+  n: number,
+  p: number,
+  out: Float64Array = new Float64Array(n * n),
+): Float64Array {
   let i = 0;
   for (; i + 3 < n; i += 4) {
-    for (let k = 0; k <= i + 3; k++) gramFourRows(x, p, i, k, n, out);
+    let k = 0;
+    for (; k + 1 <= i + 3; k += 2) gramFourByTwo(x, p, i, k, n, out);
+    if (k <= i + 3) for (let r = 0; r < 4; r++) out[(i + r) * n + k] = rowDot(x, p, i + r, k);
   }
-  for (; i < n; i++) {
-    for (let k = 0; k <= i; k++) {
-      const v = rowDot(x, p, i, k);
-      out[i * n + k] = v;
-      out[k * n + i] = v;
-    }
-  }
+  for (; i < n; i++) for (let k = 0; k <= i; k++) out[i * n + k] = rowDot(x, p, i, k);
+  // Mirror the lower triangle (the blocks also wrote a few entries above the diagonal, overwritten here).
+  for (let r = 0; r < n; r++) for (let c = r + 1; c < n; c++) out[r * n + c] = out[c * n + r];
   return out;
 }
 
-/** The inner products of rows i .. i + 3 with row k into `out` (both triangles; rows above k skipped). */
-function gramFourRows(x: Float64Array, p: number, i: number, k: number, n: number, out: Float64Array): void {
+/** The inner products of rows i .. i + 3 with rows k and k + 1, into rows i .. i + 3 of `out`. */
+function gramFourByTwo(x: Float64Array, p: number, i: number, k: number, n: number, out: Float64Array): void {
   const a0 = i * p;
   const a1 = a0 + p;
   const a2 = a1 + p;
   const a3 = a2 + p;
   const c = k * p;
+  const d = c + p;
   let s0 = 0;
   let s1 = 0;
   let s2 = 0;
   let s3 = 0;
+  let t0 = 0;
+  let t1 = 0;
+  let t2 = 0;
+  let t3 = 0;
   for (let j = 0; j < p; j++) {
     const v = x[c + j];
-    s0 += x[a0 + j] * v;
-    s1 += x[a1 + j] * v;
-    s2 += x[a2 + j] * v;
-    s3 += x[a3 + j] * v;
+    const w = x[d + j];
+    const x0 = x[a0 + j];
+    const x1 = x[a1 + j];
+    const x2 = x[a2 + j];
+    const x3 = x[a3 + j];
+    s0 += x0 * v;
+    s1 += x1 * v;
+    s2 += x2 * v;
+    s3 += x3 * v;
+    t0 += x0 * w;
+    t1 += x1 * w;
+    t2 += x2 * w;
+    t3 += x3 * w;
   }
-  const sums = [s0, s1, s2, s3];
-  for (let r = 0; r < 4; r++) {
-    if (i + r < k) continue;
-    out[(i + r) * n + k] = sums[r];
-    out[k * n + i + r] = sums[r];
-  }
+  const r0 = i * n + k;
+  out[r0] = s0;
+  out[r0 + n] = s1;
+  out[r0 + 2 * n] = s2;
+  out[r0 + 3 * n] = s3;
+  out[r0 + 1] = t0;
+  out[r0 + n + 1] = t1;
+  out[r0 + 2 * n + 1] = t2;
+  out[r0 + 3 * n + 1] = t3;
 }
 
 function rowDot(x: Float64Array, p: number, i: number, k: number): number {

@@ -39,7 +39,8 @@ import {
 import { wideEnough } from "./rowSpace.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames } from "./settings.js";
-import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
+import { softmaxRows, spreadOverClasses } from "./classProbabilities.js";
+import { summarizeClasses } from "./trainingChecks.js";
 import { UsageError } from "../errors.js";
 
 export interface LdaOptions {

@@ -34,7 +34,8 @@ import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learn
 import { linearScores } from "../numerics/linearAlgebra.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, positive, wholeNumber } from "./settings.js";
-import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
+import { softmaxRows, spreadOverClasses } from "./classProbabilities.js";
+import { summarizeClasses } from "./trainingChecks.js";
 
 export interface SvmOptions {
   /** Weight of the hinge losses against the penalty (scikit-learn's `C`); larger means a weaker penalty. @default 1 */

@@ -12,8 +12,8 @@
  * b = ȳ − x̄·w. With α = 0 and a singular XcᵀXc, the minimum-norm solution is taken.
  *
  * Written by hand: the fit is one pass forming the p × p normal equations and a Cholesky solve on raw
- * Float64Arrays (ml-matrix element access is about four times slower, measured for the project's
- * package notes), fast enough for the hundreds of fits of a learning curve.
+ * Float64Arrays (src/numerics/linearAlgebra.ts), fast enough for the hundreds of fits of a learning
+ * curve.
  */
 import type { RandomStream } from "../random.js";
 import type { FittedRegressionModel, LearnerSettings, RegressionLearner, RegressionTrainingSet } from "./learner.js";

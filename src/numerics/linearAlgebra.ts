@@ -5,8 +5,9 @@
  * Gram matrix of a block of rows (the learners' n-dimensional forms for wide data), and a minimum-norm
  * solve by symmetric eigendecomposition for the rare singular case.
  *
- * Written by hand: ml-matrix's element access is about four times slower than raw Float64Array loops
- * (measured for the project's package notes), and its Cholesky wants an exactly symmetric matrix.
+ * Written by hand: the learners' loops run on raw Float64Arrays, where ml-matrix goes through method
+ * calls per element, and its Cholesky wants an exactly symmetric matrix. (The curve fitter's small
+ * systems would not need the speed; they share this code so that there is one factorisation.)
  */
 
 /**

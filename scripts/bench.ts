@@ -16,6 +16,15 @@
  * wall time does. The last column says whether the curve files written with one and two workers are
  * byte-identical, as they must be. `BENCH_ONLY=digits,breast` runs only the data sets whose names
  * contain one of those words. Needs Debian's python3-sklearn.
+ *
+ * A second table times wide data (generated: 120 × 2,000 and 240 × 5,000 with two classes, 150 ×
+ * 2,000 with three; 40 informative columns): each learner with one worker against its scikit-learn
+ * counterpart (scripts/bench/sklearn_learning_curve.py --learner), and logistic regression with
+ * `--tune` against GridSearchCV inside learning_curve. `BENCH_ONLY=wide` runs only that table,
+ * `BENCH_LEARNERS` narrows the learners, `BENCH_CAP` (seconds, default 120) stops a scikit-learn run.
+ * The score column there compares learning_curve's unstratified subsamples with headroom's stratified
+ * ones, which differ by several points at the smallest sizes; the learners' own parity on wide data
+ * is tested on the same rows (test/learners/wide.test.ts).
  */
 import { spawnSync } from "node:child_process";
 import { copyFileSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";

@@ -155,7 +155,14 @@ function runScikitLearn(file: string, extra: string[] = [], capSeconds?: number)
   });
   const seconds = Number(process.hrtime.bigint() - started) / 1e9;
   if (capSeconds !== undefined && result.signal === "SIGKILL")
-    return { seconds: capSeconds, cpuSeconds: NaN, peakMemoryKiB: NaN, meanScores: [], trainingSizes: [], capped: true };
+    return {
+      seconds: capSeconds,
+      cpuSeconds: NaN,
+      peakMemoryKiB: NaN,
+      meanScores: [],
+      trainingSizes: [],
+      capped: true,
+    };
   if (result.status !== 0) throw new Error(`scikit-learn failed on ${file}: ${result.stderr}`);
   const parsed = JSON.parse(result.stdout) as Omit<ScikitLearnSide, "seconds">;
   return { seconds, ...parsed };

@@ -15,7 +15,9 @@ values written with 4 decimals.
 For each set:
   1. a fixed split: the first TRAIN_ROWS rows train, the rest test. Pipeline(StandardScaler(), model)
      with LogisticRegression(C=1, tol=1e-10, max_iter=100000) and LinearDiscriminantAnalysis(
-     solver="lsqr", shrinkage="auto"); predict_proba of the test rows is recorded;
+     solver="lsqr", shrinkage="auto"); predict_proba of the test rows is recorded; and
+     LinearSVC(loss="hinge", dual=True, C=1, tol=1e-8, max_iter=1000000, random_state=0), whose
+     decision_function of the test rows is recorded (one-vs-rest for three classes);
   2. learning curves with headroom's design: RepeatedStratifiedKFold(5 folds, 10 repeats,
      random_state=0); in each training fold, for each of 8 geometric sizes from 10% of the training
      pool (as scripts/reference/sklearn_learning_curve.py computes them), a stratified subsample of
@@ -47,6 +49,7 @@ from sklearn.linear_model import LogisticRegression
 from sklearn.model_selection import RepeatedStratifiedKFold, StratifiedShuffleSplit
 from sklearn.pipeline import make_pipeline
 from sklearn.preprocessing import StandardScaler
+from sklearn.svm import LinearSVC
 
 from _drift import exit_with_check, largest_difference, read_json
 
@@ -98,6 +101,10 @@ def one_set(X, y):
     train, test = slice(0, TRAIN_ROWS), slice(TRAIN_ROWS, None)
     logistic = make_pipeline(StandardScaler(), LogisticRegression(C=1.0, tol=1e-10, max_iter=100000)).fit(X[train], y[train])
     discriminant = make_pipeline(StandardScaler(), lda()).fit(X[train], y[train])
+    svm = make_pipeline(
+        StandardScaler(), LinearSVC(loss="hinge", dual=True, C=1.0, tol=1e-8, max_iter=1000000, random_state=0)
+    ).fit(X[train], y[train])
+    svm_scores = svm.decision_function(X[test])
     pool = len(y) - math.ceil(len(y) / FOLDS)
     sizes = geometric_sizes(0.1 * pool, pool)
     seeds = np.random.RandomState(SUBSAMPLE_SEED)
@@ -128,6 +135,7 @@ def one_set(X, y):
         "trainRows": TRAIN_ROWS,
         "logisticProbabilities": logistic.predict_proba(X[test]).tolist(),
         "ldaProbabilities": discriminant.predict_proba(X[test]).tolist(),
+        "svmScores": (svm_scores[:, None] if svm_scores.ndim == 1 else svm_scores).tolist(),
         "trainingSizes": sizes,
         "meanScores": curves,
         "splits": recorded,

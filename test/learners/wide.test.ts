@@ -1,6 +1,7 @@
 /**
  * The learners on wide data (more feature columns than rows), where logistic regression fits in the
- * rows' own space (src/learners/rowSpace.ts) and LDA solves by the Woodbury identity, against
+ * rows' own space (src/learners/rowSpace.ts), LDA solves by the Woodbury identity and the SVM's
+ * descent runs on the Gram matrix, against
  * scikit-learn 1.2.1 (Debian python3-sklearn): scripts/reference/sklearn_wide.py, which also generates
  * the two data sets (fixtures/reference/wide/, seeded; its header says how) and writes
  * fixtures/reference/sklearn-wide.json.
@@ -12,11 +13,14 @@ import { selectRows } from "../../src/data/dataset.js";
 import { tableToDataset } from "../../src/data/tableToDataset.js";
 import { LinearDiscriminant } from "../../src/learners/lda.js";
 import { LogisticRegression } from "../../src/learners/logistic.js";
+import { LinearSvm } from "../../src/learners/svm.js";
+import { RandomStream } from "../../src/random.js";
 
 interface WideReference {
   trainRows: number;
   logisticProbabilities: number[][];
   ldaProbabilities: number[][];
+  svmScores: number[][];
   trainingSizes: number[];
   meanScores: { logistic: number[]; lda: number[] };
   splits: { test: number[]; subsets: number[][] }[];
@@ -76,6 +80,19 @@ describe.each(["binary", "three"])("wide data set %s", (name) => {
       classCount,
     );
     expect(difference).toBeLessThan(1e-8);
+  });
+
+  it("linear SVM (descent on the Gram matrix): test decision scores within 1e-5 of scikit-learn's at tol 1e-8", () => {
+    const model = new LinearSvm({ tolerance: 1e-8, maxIterations: 1_000_000 }).fit(train, new RandomStream(1));
+    expect(model.converged).toBe(true);
+    const scores = model.decisionScores(testFeatures, testRows);
+    const width = expected.svmScores[0].length;
+    let worst = 0;
+    expected.svmScores.forEach((row, i) =>
+      row.forEach((v, k) => (worst = Math.max(worst, Math.abs(scores[i * width + k] - v)))),
+    );
+    // The hinge-loss problem's solution (w, b) is unique, whatever the order of the visits.
+    expect(worst).toBeLessThan(1e-5);
   });
 
   it.each(["logistic", "lda"] as const)(

@@ -16,6 +16,15 @@
  * wall time does. The last column says whether the curve files written with one and two workers are
  * byte-identical, as they must be. `BENCH_ONLY=digits,breast` runs only the data sets whose names
  * contain one of those words. Needs Debian's python3-sklearn.
+ *
+ * A second table times wide data (generated: 120 × 2,000 and 240 × 5,000 with two classes, 150 ×
+ * 2,000 with three; 40 informative columns): each learner with one worker against its scikit-learn
+ * counterpart (scripts/bench/sklearn_learning_curve.py --learner), and logistic regression with
+ * `--tune` against GridSearchCV inside learning_curve. `BENCH_ONLY=wide` runs only that table,
+ * `BENCH_LEARNERS` narrows the learners, `BENCH_CAP` (seconds, default 120) stops a scikit-learn run.
+ * The score column there compares learning_curve's unstratified subsamples with headroom's stratified
+ * ones, which differ by several points at the smallest sizes; the learners' own parity on wide data
+ * is tested on the same rows (test/learners/wide.test.ts).
  */
 import { spawnSync } from "node:child_process";
 import { copyFileSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -35,6 +44,8 @@ interface Side {
 
 interface ScikitLearnSide extends Side {
   trainingSizes: number[];
+  /** Stopped at the time cap (see {@link runScikitLearn}). */
+  capped?: boolean;
 }
 
 const python = "/usr/bin/python3";
@@ -63,7 +74,35 @@ function openData(name: string): string {
   return file;
 }
 
-function runHeadroom(file: string, workers: number, trainingSizes: number[]): Side {
+/**
+ * Wide data, as from gene-expression or spectra panels: `informative` of the feature columns carry
+ * the class (centres drawn once, 0.6 apart on average), the rest are noise; every value has unit
+ * noise. Values written with 4 decimals.
+ */
+function generatedWide(
+  name: string,
+  rows: number,
+  features: number,
+  classes: number,
+  informative: number,
+  seed: number,
+): string {
+  const random = new RandomStream(seed);
+  const centres = Array.from({ length: classes }, () =>
+    Array.from({ length: features }, (_, j) => (j < informative ? 0.6 * random.normal() : 0)),
+  );
+  const lines = [[...Array.from({ length: features }, (_, j) => `x${j}`), "class"].join(",")];
+  for (let i = 0; i < rows; i++) {
+    const k = i % classes;
+    const values = centres[k].map((c) => (c + random.normal()).toFixed(4));
+    lines.push([...values, `c${k}`].join(","));
+  }
+  const file = join(work, `${name}.csv`);
+  writeFileSync(file, `${lines.join("\n")}\n`);
+  return file;
+}
+
+function runHeadroom(file: string, workers: number, trainingSizes: number[], extra: string[] = []): Side {
   const out = join(work, "curve.json");
   const args = [
     "--import",
@@ -84,6 +123,7 @@ function runHeadroom(file: string, workers: number, trainingSizes: number[]): Si
     "--quiet",
     "--out",
     out,
+    ...extra,
   ];
   const started = process.hrtime.bigint();
   const result = spawnSync(process.execPath, args, { encoding: "utf8" });
@@ -101,11 +141,28 @@ function runHeadroom(file: string, workers: number, trainingSizes: number[]): Si
   };
 }
 
-function runScikitLearn(file: string): ScikitLearnSide {
+/**
+ * scikit-learn's side, stopped after `capSeconds` when given: its LDA solves a p × p system per fit,
+ * which on thousands of columns takes minutes to hours. A stopped run counts as `capSeconds` (so the
+ * ratio printed is an upper bound, marked "<"), with no scores.
+ */
+function runScikitLearn(file: string, extra: string[] = [], capSeconds?: number): ScikitLearnSide {
   const script = join(packageRoot, "scripts", "bench", "sklearn_learning_curve.py");
   const started = process.hrtime.bigint();
-  const result = spawnSync(python, [script, file], { encoding: "utf8" });
+  const result = spawnSync(python, [script, file, ...extra], {
+    encoding: "utf8",
+    ...(capSeconds === undefined ? {} : { timeout: capSeconds * 1000, killSignal: "SIGKILL" as const }),
+  });
   const seconds = Number(process.hrtime.bigint() - started) / 1e9;
+  if (capSeconds !== undefined && result.signal === "SIGKILL")
+    return {
+      seconds: capSeconds,
+      cpuSeconds: NaN,
+      peakMemoryKiB: NaN,
+      meanScores: [],
+      trainingSizes: [],
+      capped: true,
+    };
   if (result.status !== 0) throw new Error(`scikit-learn failed on ${file}: ${result.stderr}`);
   const parsed = JSON.parse(result.stdout) as Omit<ScikitLearnSide, "seconds">;
   return { seconds, ...parsed };
@@ -129,6 +186,16 @@ const sets: [string, () => string][] = [
   ["gaussian (20000×16, 26 classes)", () => generated("gaussian-20k", 20000, 16, 26, 2)],
 ];
 
+/** The wide sets: names contain "wide" for BENCH_ONLY. */
+const wideSets: [string, () => string][] = [
+  ["wide (120×2000, 2 classes)", () => generatedWide("wide-120", 120, 2000, 2, 40, 3)],
+  ["wide (240×5000, 2 classes)", () => generatedWide("wide-240", 240, 5000, 2, 40, 4)],
+  ["wide (150×2000, 3 classes)", () => generatedWide("wide-150-3", 150, 2000, 3, 40, 5)],
+];
+/** Longest a scikit-learn run on wide data may take (`BENCH_CAP` seconds). */
+const wideCapSeconds = Number(process.env.BENCH_CAP ?? 120);
+const wideLearners = (process.env.BENCH_LEARNERS ?? "logistic,lda,naive-bayes,knn,svm,forest").split(",");
+
 const check = spawnSync(python, ["-c", "import sklearn; print(sklearn.__version__)"], { encoding: "utf8" });
 if (check.status !== 0) {
   process.stderr.write("bench: needs Debian's python3-sklearn (apt-get install python3-sklearn)\n");
@@ -146,6 +213,19 @@ if (check.status !== 0) {
   for (const [name, make] of sets) {
     if (only && !only.some((word) => name.toLowerCase().includes(word))) continue;
     runSet(name, make);
+  }
+  const wideWanted = wideSets.filter(([name]) => !only || only.some((word) => name.toLowerCase().includes(word)));
+  if (wideWanted.length > 0) {
+    process.stdout.write(
+      "\nWide data, one worker, each learner with scikit-learn's counterpart (--tune: GridSearchCV inside learning_curve)\n" +
+        "data set | learner | sklearn s | headroom 1w s | ratio 1w | sklearn CPU s | headroom CPU s | CPU ratio | " +
+        "sklearn MiB | headroom MiB | memory ratio | max |Δ mean score| | load after\n",
+    );
+  }
+  for (const [name, make] of wideWanted) {
+    const file = make();
+    for (const learner of wideLearners) runWide(name, file, learner, false);
+    if (name.includes("120×2000, 2")) runWide(name, file, "logistic", true);
   }
 }
 rmSync(work, { recursive: true, force: true });
@@ -186,4 +266,48 @@ function runSet(name: string, make: () => string): void {
       load(),
     ].join(" | ") + "\n",
   );
+}
+
+/** One learner on one wide set, one worker, both sides; prints its row. */
+function runWide(name: string, file: string, learner: string, tune: boolean): void {
+  const skArgs = ["--learner", learner, ...(tune ? ["--tune"] : [])];
+  const sk: ScikitLearnSide[] = [];
+  const one: Side[] = [];
+  for (let run = 0; run < runs; run++) {
+    // A capped reference is not rerun: its time is the cap whatever the load.
+    if (run === 0 || !sk[0].capped) sk.push(runScikitLearn(file, skArgs, wideCapSeconds));
+    one.push(runHeadroom(file, 1, wideSizes(file, sk[0]), ["--learner", learner, ...(tune ? ["--tune"] : [])]));
+  }
+  const s = fastest(sk);
+  const h = fastest(one);
+  const bound = s.capped ? "<" : "";
+  const delta = s.capped ? NaN : Math.max(...s.meanScores.map((v, i) => Math.abs(v - h.meanScores[i])));
+  process.stdout.write(
+    [
+      name,
+      tune ? `${learner} --tune` : learner,
+      s.seconds.toFixed(2),
+      h.seconds.toFixed(2),
+      bound + (h.seconds / s.seconds).toFixed(2),
+      s.cpuSeconds.toFixed(2),
+      h.cpuSeconds.toFixed(2),
+      (h.cpuSeconds / s.cpuSeconds).toFixed(2),
+      (s.peakMemoryKiB / 1024).toFixed(0),
+      (h.peakMemoryKiB / 1024).toFixed(0),
+      (h.peakMemoryKiB / s.peakMemoryKiB).toFixed(2),
+      delta.toFixed(3),
+      load(),
+    ].join(" | ") + "\n",
+  );
+}
+
+/**
+ * The training sizes both sides fit: scikit-learn's (8 geometric fractions of an 80% pool, as its
+ * script prints them), computed here when its run was stopped at the cap.
+ */
+function wideSizes(file: string, side: ScikitLearnSide): number[] {
+  if (!side.capped) return side.trainingSizes;
+  const rows = readFileSync(file, "utf8").trimEnd().split("\n").length - 1;
+  const pool = rows - Math.ceil(rows * 0.2);
+  return Array.from({ length: 8 }, (_, i) => Math.trunc(pool * 0.1 ** (1 - i / 7) + 1e-9));
 }

@@ -25,8 +25,7 @@
 import { Worker } from "node:worker_threads";
 import type { Dataset } from "../data/dataset.js";
 import { InterruptedError } from "../errors.js";
-import { releaseScratch } from "../learners/scratch.js";
-import { releaseSoftmaxMemory } from "../learners/softmaxKernel.js";
+import { releaseLearnerMemory } from "../learners/registry.js";
 import { message as messages } from "../messages.js";
 import { runFitTask, type FitPlan, type FitTask } from "./fitTask.js";
 import type { FromWorker, ToWorker } from "./fitWorker.js";
@@ -73,10 +72,9 @@ export async function runFitTasks(
   try {
     return await runPool(data, plan, tasks, options);
   } finally {
-    // The fits' work arrays on this thread, as large as the largest fit's rows, are not kept once the
+    // The fits' work memory on this thread, as large as the largest fit's, is not kept once the
     // measurement ends (worker threads end with it).
-    releaseScratch();
-    releaseSoftmaxMemory();
+    releaseLearnerMemory();
   }
 }
 

@@ -46,6 +46,10 @@
  */
 import { FitError } from "../errors.js";
 import { message } from "../messages.js";
+import { choleskyInPlace, choleskySolveInPlace } from "../numerics/linearAlgebra.js";
+
+/** Smallest Cholesky pivot accepted on a matrix scaled to a unit diagonal: below it, singular to working precision. */
+const unitDiagonalPivotFloor = 1e-14;
 
 /** A model evaluated at one abscissa: `model(x, parameters)` returns the fitted y. */
 export type ModelFunction = (x: number, parameters: readonly number[]) => number;
@@ -617,7 +621,7 @@ function solveDamped(
       a[r * m + c] = value * scale[r] * scale[c];
     }
   }
-  if (!choleskyInPlace(a, m)) return null;
+  if (!choleskyInPlace(a, m, 0, unitDiagonalPivotFloor)) return null;
   const rhs = new Float64Array(m);
   for (let r = 0; r < m; r++) rhs[r] = -rightHandSide[free[r]] * scale[r];
   choleskySolveInPlace(a, m, rhs);
@@ -637,7 +641,7 @@ function invertSymmetric(matrix: Float64Array, p: number): Float64Array | null {
   for (let j = 0; j < p; j++) {
     for (let k = 0; k < p; k++) a[j * p + k] = matrix[j * p + k] * scale[j] * scale[k];
   }
-  if (!choleskyInPlace(a, p)) return null;
+  if (!choleskyInPlace(a, p, 0, unitDiagonalPivotFloor)) return null;
   const inverse = new Float64Array(p * p);
   const column = new Float64Array(p);
   for (let k = 0; k < p; k++) {
@@ -655,39 +659,4 @@ function invertSymmetric(matrix: Float64Array, p: number): Float64Array | null {
     }
   }
   return inverse;
-}
-
-/**
- * Cholesky factorization A = L·Lᵀ in place (lower triangle) of a matrix scaled to a unit diagonal.
- * Returns false when a pivot falls below round-off, i.e. the matrix is singular to working precision.
- */
-function choleskyInPlace(a: Float64Array, m: number): boolean {
-  const pivotFloor = 1e-14;
-  for (let j = 0; j < m; j++) {
-    let d = a[j * m + j];
-    for (let k = 0; k < j; k++) d -= a[j * m + k] * a[j * m + k];
-    if (!(d > pivotFloor)) return false;
-    const l = Math.sqrt(d);
-    a[j * m + j] = l;
-    for (let i = j + 1; i < m; i++) {
-      let s = a[i * m + j];
-      for (let k = 0; k < j; k++) s -= a[i * m + k] * a[j * m + k];
-      a[i * m + j] = s / l;
-    }
-  }
-  return true;
-}
-
-/** Solves L·Lᵀ z = b in place, with L from `choleskyInPlace`. */
-function choleskySolveInPlace(l: Float64Array, m: number, b: Float64Array): void {
-  for (let i = 0; i < m; i++) {
-    let s = b[i];
-    for (let k = 0; k < i; k++) s -= l[i * m + k] * b[k];
-    b[i] = s / l[i * m + i];
-  }
-  for (let i = m - 1; i >= 0; i--) {
-    let s = b[i];
-    for (let k = i + 1; k < m; k++) s -= l[k * m + i] * b[k];
-    b[i] = s / l[i * m + i];
-  }
 }

@@ -49,6 +49,7 @@ import { StreamPurpose, streamFor } from "../random.js";
 import type { BacktestPrediction } from "./forecastFile.js";
 import type { MeasuredCurve } from "./measuredCurve.js";
 import { repeatLabels, resampledPoints } from "./resampling.js";
+import { mean, sampleVariance } from "../numerics/statistics.js";
 
 /** One family as the forecast uses it. */
 export interface AssessedFamily {
@@ -218,7 +219,7 @@ function backtestFamily(
       const predicted = clampOriented(family.model(held.trainingSize, fit.parameters));
       if (!Number.isFinite(predicted)) return `backtest prediction at training size ${held.trainingSize} is not finite`;
       errors.squared.push((predicted - held.value) ** 2);
-      errors.noise.push(variance(resampledErrors[j - cut]) ?? meanVariances[j]);
+      errors.noise.push(sampleVariance(resampledErrors[j - cut]) ?? meanVariances[j]);
       errors.logDistance.push(Math.log(held.trainingSize / fittedUpTo));
       predictions.push({
         family: family.name,
@@ -267,13 +268,6 @@ function resampledBacktestErrors(
   return errors;
 }
 
-/** Sample variance (n − 1), or null with fewer than 2 values. */
-function variance(values: readonly number[]): number | null {
-  if (values.length < 2) return null;
-  const m = mean(values);
-  return values.reduce((s, v) => s + (v - m) ** 2, 0) / (values.length - 1);
-}
-
 /** τ = sqrt(max(0, Σ(e² − v)) / Σ L). */
 function extrapolationError(errors: BacktestErrors): number {
   let excess = 0;
@@ -283,8 +277,4 @@ function extrapolationError(errors: BacktestErrors): number {
     distance += errors.logDistance[i];
   });
   return distance > 0 ? Math.sqrt(Math.max(0, excess) / distance) : 0;
-}
-
-function mean(values: readonly number[]): number {
-  return values.length === 0 ? 0 : values.reduce((s, v) => s + v, 0) / values.length;
 }

@@ -9,6 +9,7 @@ import { message } from "../messages.js";
 import { orientationSign, type Orientation, type OrientedPoint } from "../fit/families.js";
 import type { MeasuredSummary } from "./forecastFile.js";
 import { quantileSorted } from "./quantile.js";
+import { mean, sampleVariance } from "../numerics/statistics.js";
 
 /** How the scores at one training size are resampled. */
 export type ResamplingUnit =
@@ -109,13 +110,11 @@ function summarize(point: CurvePoint): MeasuredSummary {
     // leave a spurious variance of 1e-34 that would then set the weights).
     return { trainingSize: point.trainingSize, mean: first, standardDeviation: 0, fits };
   }
-  const mean = point.scores.reduce((s, v) => s + v, 0) / fits;
-  let squares = 0;
-  for (const score of point.scores) squares += (score - mean) ** 2;
+  const variance = sampleVariance(point.scores);
   return {
     trainingSize: point.trainingSize,
-    mean,
-    standardDeviation: fits > 1 ? Math.sqrt(squares / (fits - 1)) : 0,
+    mean: mean(point.scores),
+    standardDeviation: variance === null ? 0 : Math.sqrt(variance),
     fits,
   };
 }
@@ -162,11 +161,8 @@ function sizeWeights(measured: readonly MeasuredSummary[]): number[] {
 /** Variance of a size's mean as resampling sees it: between repeat means / repeats, else s² / fits. */
 function varianceOfMean(unit: ResamplingUnit, summary: MeasuredSummary): number {
   if (unit.kind === "repeats" && unit.scoresOfRepeat.size > 1) {
-    const means = [...unit.scoresOfRepeat.values()].map((scores) => scores.reduce((s, v) => s + v, 0) / scores.length);
-    const mean = means.reduce((s, v) => s + v, 0) / means.length;
-    let squares = 0;
-    for (const value of means) squares += (value - mean) ** 2;
-    return squares / (means.length - 1) / means.length;
+    const means = [...unit.scoresOfRepeat.values()].map((scores) => mean(scores));
+    return (sampleVariance(means) ?? 0) / means.length;
   }
   return summary.fits > 1 ? summary.standardDeviation ** 2 / summary.fits : 0;
 }

@@ -30,7 +30,8 @@ import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, wholeNumber } from "./settings.js";
-import { spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
+import { spreadOverClasses } from "./classProbabilities.js";
+import { summarizeClasses } from "./trainingChecks.js";
 
 export interface ForestOptions {
   /** Number of trees (scikit-learn's `n_estimators`). @default 100 */

@@ -20,16 +20,27 @@
  *    logistic of the score difference).
  * Classes absent from the training rows get probability 0; with one class present, probability 1.
  *
+ * With more columns than rows (wide data), Σ is a diagonal matrix plus a matrix of rank at most n,
+ * and Σ⁻¹μₖ is solved by the Woodbury identity in n dimensions instead (see {@link fitWide}).
+ *
  * Written by hand because no npm package offers shrinkage discriminant analysis with probabilities;
  * the fit is one pass over the rows per class for the covariances and a p × p Cholesky solve, on raw
  * Float64Array loops.
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
-import { choleskyInPlace, choleskySolveInPlace, linearScores, minimumNormSolve } from "./linearAlgebra.js";
+import {
+  choleskyInPlace,
+  choleskySolveInPlace,
+  gramMatrix,
+  linearScores,
+  minimumNormSolve,
+} from "../numerics/linearAlgebra.js";
+import { wideEnough } from "./rowSpace.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames } from "./settings.js";
-import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
+import { softmaxRows, spreadOverClasses } from "./classProbabilities.js";
+import { summarizeClasses } from "./trainingChecks.js";
 import { UsageError } from "../errors.js";
 import { message } from "../messages.js";
 
@@ -84,6 +95,10 @@ export class LinearDiscriminant implements Learner {
     if (classes === 1)
       return new FittedLda(classCount, preprocessor, present, new Float64Array(0), new Float64Array(0));
     const x = preprocessor.transform(features, rows);
+    if (wideEnough(rows, p)) {
+      const wide = fitWide(x, rows, p, classes, positions, this.options.shrinkage);
+      if (wide !== null) return new FittedLda(classCount, preprocessor, present, wide.coefficients, wide.intercepts);
+    }
 
     // Rows of each class, gathered once.
     const members: Int32Array[] = [];
@@ -298,4 +313,180 @@ function ledoitWolfShrinkage(x: Float64Array, s: Float64Array, n: number, p: num
   if (!(delta > 0)) return 0;
   beta = Math.min(beta, delta);
   return beta === 0 ? 0 : beta / delta;
+}
+
+/**
+ * The discriminant on wide data, with the same Σ and the same coefficients as the p × p path, in
+ * n-dimensional work. Each class's shrunk covariance is (1 − δₖ)·CₖᵀCₖ/nₖ + diag(eₖ), where Cₖ holds
+ * the class's centred rows (scaled back from its standardized columns) and eₖ is the shrinkage target
+ * δₖ·μₖ·(column scale)² (or δ·trace/p for a fixed shrinkage). Hence Σ = Λ + UᵀU with Λ = Σₖ πₖ·eₖ
+ * diagonal and U the n × p stack of the blocks √(πₖ(1 − δₖ)/nₖ)·Cₖ, and by the Woodbury identity
+ * (Golub and Van Loan, "Matrix Computations", 4th ed., section 2.1.4)
+ *     Σ⁻¹v = Λ⁻¹v − Λ⁻¹Uᵀ(I + UΛ⁻¹Uᵀ)⁻¹UΛ⁻¹v,
+ * an n × n Cholesky solve. The Ledoit–Wolf shrinkage needs trace S, ‖S‖²_F and the rows' squared
+ * norms, all read off the class's Gram matrix (‖YᵀY‖_F = ‖YYᵀ‖_F). Null when Σ is not safely
+ * invertible (the same test as the p × p path), which then takes over.
+ */
+function fitWide(
+  x: Float64Array,
+  rows: number,
+  p: number,
+  classes: number,
+  positions: Int32Array,
+  shrinkage: number,
+): { coefficients: Float64Array; intercepts: Float64Array } | null {
+  const members: Int32Array[] = [];
+  const sizes = new Int32Array(classes);
+  for (let i = 0; i < rows; i++) sizes[positions[i]]++;
+  const fill = new Int32Array(classes);
+  for (let k = 0; k < classes; k++) members.push(new Int32Array(sizes[k]));
+  for (let i = 0; i < rows; i++) members[positions[i]][fill[positions[i]]++] = i;
+
+  const means = new Float64Array(classes * p);
+  const lambda = new Float64Array(p);
+  const u = new Float64Array(rows * p);
+  let floor = 0;
+  let trace = 0;
+  let offset = 0;
+  for (let k = 0; k < classes; k++) {
+    const n = sizes[k];
+    const prior = n / rows;
+    const block = gather(x, p, members[k]);
+    means.set(columnMeans(block, n, p), k * p);
+    const shrunk = Number.isNaN(shrinkage) ? ledoitWolfWide(block, n, p) : fixedShrinkageWide(block, n, p, shrinkage);
+    for (let j = 0; j < p; j++) lambda[j] += prior * shrunk.diagonal[j];
+    floor += prior * shrunk.floor;
+    const weight = Math.sqrt((prior * (1 - shrunk.shrinkage)) / n);
+    for (let i = 0; i < n * p; i++) u[offset * p + i] = weight * block[i];
+    trace += prior * (1 - shrunk.shrinkage) * shrunk.trace;
+    offset += n;
+  }
+  for (let j = 0; j < p; j++) trace += lambda[j];
+  if (!(floor > Number.EPSILON * trace)) return null;
+
+  // V = U Λ^(−1/2); M = I + V Vᵀ.
+  const v = new Float64Array(rows * p);
+  const rootInverse = new Float64Array(p);
+  for (let j = 0; j < p; j++) rootInverse[j] = 1 / Math.sqrt(lambda[j]);
+  for (let i = 0; i < rows; i++) for (let j = 0; j < p; j++) v[i * p + j] = u[i * p + j] * rootInverse[j];
+  const m = gramMatrix(v, rows, p);
+  for (let i = 0; i < rows; i++) m[i * rows + i] += 1;
+  if (!choleskyInPlace(m, rows)) return null;
+
+  const coefficients = new Float64Array(classes * p);
+  const intercepts = new Float64Array(classes);
+  const t = new Float64Array(p);
+  const q = new Float64Array(rows);
+  for (let k = 0; k < classes; k++) {
+    const mean = means.subarray(k * p, (k + 1) * p);
+    // t = Λ^(−1/2) μ; q = (I + VVᵀ)⁻¹ V t; w = Λ^(−1/2) (t − Vᵀq).
+    for (let j = 0; j < p; j++) t[j] = mean[j] * rootInverse[j];
+    for (let i = 0; i < rows; i++) {
+      let s = 0;
+      for (let j = 0; j < p; j++) s += v[i * p + j] * t[j];
+      q[i] = s;
+    }
+    choleskySolveInPlace(m, rows, q);
+    const w = coefficients.subarray(k * p, (k + 1) * p);
+    w.set(t);
+    for (let i = 0; i < rows; i++) {
+      const qi = q[i];
+      for (let j = 0; j < p; j++) w[j] -= qi * v[i * p + j];
+    }
+    let quadratic = 0;
+    for (let j = 0; j < p; j++) {
+      w[j] *= rootInverse[j];
+      quadratic += mean[j] * w[j];
+    }
+    intercepts[k] = -0.5 * quadratic + Math.log(sizes[k] / rows);
+  }
+  return { coefficients, intercepts };
+}
+
+/** A class's shrunk covariance on wide data: (1 − shrinkage)·CᵀC/n + diag(diagonal), C in the block. */
+interface WideShrunkCovariance {
+  shrinkage: number;
+  /** The shrinkage target's diagonal, eₖ. */
+  diagonal: Float64Array;
+  /** trace(CᵀC/n). */
+  trace: number;
+  /** A lower bound on the smallest eigenvalue, as {@link ShrunkCovariance}'s. */
+  floor: number;
+}
+
+/** {@link fixedShrinkageCovariance} in the wide form; centres `block` in place. */
+function fixedShrinkageWide(block: Float64Array, n: number, p: number, shrinkage: number): WideShrunkCovariance {
+  const mean = columnMeans(block, n, p);
+  let squares = 0;
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < p; j++) {
+      const d = block[i * p + j] - mean[j];
+      block[i * p + j] = d;
+      squares += d * d;
+    }
+  }
+  const trace = squares / n;
+  const target = (shrinkage * trace) / p;
+  return { shrinkage, diagonal: new Float64Array(p).fill(target), trace, floor: target };
+}
+
+/**
+ * {@link ledoitWolfCovariance} in the wide form: the same standardization, the shrinkage from the
+ * class's Gram matrix, and the block left holding C (the centred standardized rows scaled back).
+ */
+function ledoitWolfWide(block: Float64Array, n: number, p: number): WideShrunkCovariance {
+  const eps = Number.EPSILON;
+  const scale = new Float64Array(p);
+  const mean = columnMeans(block, n, p);
+  for (let j = 0; j < p; j++) {
+    let squares = 0;
+    let residualSum = 0;
+    for (let i = 0; i < n; i++) {
+      const d = block[i * p + j] - mean[j];
+      squares += d * d;
+      residualSum += d;
+    }
+    const variance = (squares - (residualSum * residualSum) / n) / n;
+    const bound = n * eps * variance + (n * mean[j] * eps) ** 2;
+    scale[j] = variance <= bound ? 1 : Math.sqrt(variance);
+  }
+  for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) block[i * p + j] = (block[i * p + j] - mean[j]) / scale[j];
+  const again = columnMeans(block, n, p);
+  for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) block[i * p + j] -= again[j];
+
+  const gram = gramMatrix(block, n, p);
+  let gramTrace = 0;
+  let gramSquares = 0;
+  let fourth = 0;
+  for (let i = 0; i < n; i++) {
+    const d = gram[i * n + i];
+    gramTrace += d;
+    fourth += d * d;
+  }
+  for (let i = 0; i < n * n; i++) gramSquares += gram[i] * gram[i];
+  const traceS = gramTrace / n;
+  const mu = traceS / p;
+  const frobenius = gramSquares / (n * n);
+  let beta = (fourth / n - frobenius) / (p * n);
+  const delta = (frobenius - 2 * mu * traceS + p * mu * mu) / p;
+  let shrinkage = 0;
+  if (delta > 0) {
+    beta = Math.min(beta, delta);
+    shrinkage = beta === 0 ? 0 : beta / delta;
+  }
+  const diagonal = new Float64Array(p);
+  let smallestScale = Infinity;
+  let trace = 0;
+  for (let j = 0; j < p; j++) {
+    diagonal[j] = shrinkage * mu * scale[j] * scale[j];
+    smallestScale = Math.min(smallestScale, scale[j]);
+  }
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < p; j++) {
+      const c = block[i * p + j] * scale[j];
+      block[i * p + j] = c;
+      trace += c * c;
+    }
+  }
+  return { shrinkage, diagonal, trace: trace / n, floor: shrinkage * mu * smallestScale * smallestScale };
 }

@@ -19,18 +19,20 @@
  *    correction pairs and a backtracking line search satisfying Armijo's condition (or the approximate
  *    Wolfe conditions, as for two classes). The intercepts are determined only up to a common
  *    constant; they are returned summing to zero, as scikit-learn's. The sums over the rows run in a
- *    small WebAssembly kernel ({@link SoftmaxLoss}), about three times as fast as plain JavaScript.
+ *    small WebAssembly kernel ({@link SoftmaxLoss}), faster than plain JavaScript (`npm run bench`).
+ *    The optimiser is src/numerics/lbfgs.ts.
+ *  - More feature columns than rows (wide data): the same objective is minimised in the rows' own
+ *    n-dimensional space ({@link rowSpace}), by L-BFGS for two classes too, and the coefficients are
+ *    mapped back to the columns; the work grows with n² · p instead of p² or p³.
  *  - Both stop as scikit-learn 1.2's lbfgs does with its defaults (`tol` 1e-4 and SciPy's L-BFGS-B
  *    `factr` 1e7): when every entry of the gradient of scikit-learn's objective
  *    F = Σᵢ log-loss + ‖W‖²/(2C) is at most `tolerance` in absolute value, or when an iteration
  *    lowers F by at most `relativeDecrease` · max(|F|, 1). F is strongly convex in W with modulus
  *    1/C, so the gradient test bounds the distance to the optimal coefficients by C · ‖∇F‖ whatever
  *    the number of rows. The optimizers work with F divided by n, whose scale does not grow with n.
- *    A learning curve needs no tighter optimum: at these defaults the coefficients fitted on all of
- *    digits sit as near the optimum as scikit-learn's own (4e-4 relative); over the 80 fits of the
- *    benchmark's digits curve (`npm run bench`) the held-out accuracy was 0.94205 against 0.94201
- *    with a 1e-8 tolerance and no relative test (about one prediction in 28,800), in 5,037 L-BFGS
- *    iterations instead of 12,014.
+ *    A learning curve needs no tighter optimum than scikit-learn's own: held-out accuracy moves by far
+ *    less than its sampling error when the tolerance is tightened, while the iterations grow several
+ *    fold.
  *  - A warm start (`fit`'s `previous` model, from the previous training size of a (repeat, fold))
  *    starts the optimizer from that model instead of from zero.
  *  - A training subsample may lack some of the data set's classes: the model is fitted on the classes
@@ -38,8 +40,7 @@
  *    with probability 1.
  *
  * Written by hand because the npm package ml-logistic-regression fits no intercept and no penalty and
- * runs a fixed 50,000 gradient steps (11 s for one 200 × 30 fit, measured for the project's package
- * notes), while a learning curve needs hundreds of fits. Loops run on raw Float64Arrays (and the
+ * runs a fixed 50,000 gradient steps, while a learning curve needs hundreds of fits. Loops run on raw Float64Arrays (and the
  * multinomial sums in WebAssembly).
  */
 import { DataError, FitError, UsageError } from "../errors.js";
@@ -47,7 +48,18 @@ import { message } from "../messages.js";
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
+import {
+  approximateWolfe,
+  decreasedLittle,
+  dot,
+  gradientSize,
+  minimizeLbfgs,
+  type LbfgsOptions,
+  type Objective,
+} from "../numerics/lbfgs.js";
+import { rowSpace, wideEnough } from "./rowSpace.js";
 import { scratchDoubles, scratchIntegers } from "./scratch.js";
+import { choleskyInPlace, choleskySolveInPlace } from "../numerics/linearAlgebra.js";
 import { checkSettingNames } from "./settings.js";
 import { SoftmaxLoss } from "./softmaxKernel.js";
 
@@ -160,11 +172,25 @@ export class LogisticRegression implements Learner {
     const y = scratchIntegers("logistic.labels", rows);
     for (let i = 0; i < rows; i++) y[i] = position[labels[i]];
 
-    const start = previous instanceof FittedLogistic ? warmStart(previous, preprocessor, classes) : undefined;
-    const fitted =
-      present.length === 2
-        ? fitBinary(x, y, rows, width, this.options, start)
-        : fitMultinomial(x, y, rows, width, present.length, this.options, start);
+    let fitted: LinearFit;
+    if (wideEnough(rows, width)) {
+      // More columns than rows: the same fit in the rows' own space (rowSpace.ts), from zero, judged
+      // by the gradient's Euclidean length (rotation-invariant, at least its largest entry). There
+      // the Newton step would cost n·r² per iteration against n·r for L-BFGS's, so two classes take
+      // L-BFGS too, as scikit-learn's lbfgs does.
+      const space = rowSpace(x, rows, width);
+      const reduced =
+        present.length === 2
+          ? fitBinaryLbfgs(space.features, y, rows, space.rank, this.options)
+          : fitMultinomial(space.features, y, rows, space.rank, present.length, this.options, undefined, true);
+      fitted = { ...reduced, coefficients: space.lift(reduced.coefficients, reduced.intercepts.length) };
+    } else {
+      const start = previous instanceof FittedLogistic ? warmStart(previous, preprocessor, classes) : undefined;
+      fitted =
+        present.length === 2
+          ? fitBinary(x, y, rows, width, this.options, start)
+          : fitMultinomial(x, y, rows, width, present.length, this.options, start);
+    }
     return new FittedLogistic(
       classCount,
       columns,
@@ -313,21 +339,6 @@ function softplus(z: number): number {
   return z > 0 ? z + Math.log1p(Math.exp(-z)) : Math.log1p(Math.exp(z));
 }
 
-function maxAbs(v: Float64Array): number {
-  let m = 0;
-  for (let i = 0; i < v.length; i++) {
-    const a = Math.abs(v[i]);
-    if (a > m) m = a;
-  }
-  return m;
-}
-
-function dot(a: Float64Array, b: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < a.length; i++) s += a[i] * b[i];
-  return s;
-}
-
 /**
  * Binary model by Newton's method. Parameters θ = (w₁ .. w_p, b); the objective, divided by C·n, is
  * f(θ) = (1/n) Σ [log(1 + e^zᵢ) − yᵢ zᵢ] + λ‖w‖²/2 with zᵢ = w·xᵢ + b and λ = 1/(C·n). Its gradient is
@@ -341,6 +352,7 @@ function fitBinary(
   p: number,
   options: ResolvedLogisticOptions,
   start?: Float64Array,
+  euclidean = false,
 ): LinearFit {
   const m = p + 1;
   const lambda = 1 / (options.C * n);
@@ -366,7 +378,7 @@ function fitBinary(
   let iterations = 0;
   let converged = false;
   for (;;) {
-    if (maxAbs(gradient) <= gradientBound) {
+    if (gradientSize(gradient, euclidean) <= gradientBound) {
       converged = true;
       break;
     }
@@ -411,10 +423,13 @@ function fitBinary(
     // No acceptable step even a millionth of a Newton step long: nothing more to gain.
     if (!accepted) {
       objective(theta, gradient);
-      converged = maxAbs(gradient) <= gradientBound;
+      converged = gradientSize(gradient, euclidean) <= gradientBound;
       break;
     }
-    if (maxAbs(gradient) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
+    if (
+      gradientSize(gradient, euclidean) > gradientBound &&
+      decreasedLittle(fPrevious, f, options.relativeDecrease, n)
+    ) {
       converged = true;
       break;
     }
@@ -425,6 +440,45 @@ function fitBinary(
     iterations,
     converged,
   };
+}
+
+/**
+ * The binary model of {@link fitBinary} fitted by L-BFGS instead of Newton's method (for the
+ * row-space form of wide data, where an iteration of L-BFGS is much cheaper than a Newton step),
+ * from zero, with the Euclidean gradient test.
+ */
+function fitBinaryLbfgs(
+  x: Float64Array,
+  y: Int32Array,
+  n: number,
+  p: number,
+  options: ResolvedLogisticOptions,
+): LinearFit {
+  const objective = new BinaryObjective(x, y, n, p, 1 / (options.C * n), scratchDoubles("logistic.weights", n));
+  const result = minimizeLbfgs(objective, new Float64Array(p + 1), lbfgsOptions(options, n, true, p + 1));
+  const theta = result.solution;
+  return {
+    coefficients: theta.slice(0, p),
+    intercepts: Float64Array.of(theta[p]),
+    iterations: result.iterations,
+    converged: result.converged,
+  };
+}
+
+/** {@link binaryObjective} as an {@link Objective} (a class, not a closure: see {@link MultinomialObjective}). */
+class BinaryObjective implements Objective {
+  constructor(
+    private readonly x: Float64Array,
+    private readonly y: Int32Array,
+    private readonly n: number,
+    private readonly p: number,
+    private readonly lambda: number,
+    private readonly weights: Float64Array,
+  ) {}
+
+  evaluate(theta: Float64Array, gradient: Float64Array): number {
+    return binaryObjective(this.x, this.y, this.n, this.p, this.lambda, theta, gradient, this.weights);
+  }
 }
 
 /**
@@ -485,74 +539,31 @@ function binaryObjective(
 }
 
 /**
- * SciPy's relative-reduction test (L-BFGS-B's `ftol`) on scikit-learn's objective F = n·f, where f is
- * the objective divided by C·n that the fits work with: (F_before − F_after) ≤ ε · max(|F_before|,
- * |F_after|, 1). Off when ε is 0.
- */
-function decreasedLittle(before: number, after: number, relativeDecrease: number, n: number): boolean {
-  return (
-    relativeDecrease > 0 &&
-    (before - after) * n <= relativeDecrease * Math.max(Math.abs(before) * n, Math.abs(after) * n, 1)
-  );
-}
-
-/**
  * Solves A x = b for a symmetric positive definite `m × m` matrix A (row-major, exactly symmetric) by
- * Cholesky decomposition A = L Lᵀ. Should rounding make a pivot non-positive, it retries with a small
- * multiple of the identity added, growing tenfold each time (Levenberg's damping). `l` (m × m values)
- * receives the factor.
+ * Cholesky decomposition A = L Lᵀ into `factor`. Should rounding make a pivot non-positive, it retries
+ * with a small multiple of the identity added, growing tenfold each time (Levenberg's damping).
  * @throws FitError when even a damped matrix cannot be decomposed (a NaN or Infinity in A).
  */
-function solveSymmetricPositive(a: Float64Array, m: number, b: Float64Array, x: Float64Array, l: Float64Array): void {
+function solveSymmetricPositive(
+  a: Float64Array,
+  m: number,
+  b: Float64Array,
+  x: Float64Array,
+  factor: Float64Array,
+): void {
   let largestDiagonal = 0;
   for (let j = 0; j < m; j++) largestDiagonal = Math.max(largestDiagonal, Math.abs(a[j * m + j]));
   let damping = 0;
   for (let attempt = 0; attempt < 20; attempt++) {
-    if (cholesky(a, m, damping, l)) {
-      // Forward substitution L u = b, then back substitution Lᵀ x = u.
-      for (let i = 0; i < m; i++) {
-        let s = b[i];
-        for (let k = 0; k < i; k++) s -= l[i * m + k] * x[k];
-        x[i] = s / l[i * m + i];
-      }
-      for (let i = m - 1; i >= 0; i--) {
-        let s = x[i];
-        for (let k = i + 1; k < m; k++) s -= l[k * m + i] * x[k];
-        x[i] = s / l[i * m + i];
-      }
+    factor.set(a);
+    if (choleskyInPlace(factor, m, damping)) {
+      x.set(b);
+      choleskySolveInPlace(factor, m, x);
       return;
     }
     damping = damping === 0 ? 1e-12 * Math.max(largestDiagonal, 1e-300) : damping * 10;
   }
   throw new FitError(message.newtonStepFailed());
-}
-
-/** Cholesky factor of A + damping·I into `l` (lower triangle); false when a pivot is not positive. */
-function cholesky(a: Float64Array, m: number, damping: number, l: Float64Array): boolean {
-  for (let j = 0; j < m; j++) {
-    let s = a[j * m + j] + damping;
-    for (let k = 0; k < j; k++) s -= l[j * m + k] * l[j * m + k];
-    if (!(s > 0)) return false;
-    const pivot = Math.sqrt(s);
-    l[j * m + j] = pivot;
-    for (let i = j + 1; i < m; i++) {
-      let t = a[i * m + j];
-      for (let k = 0; k < j; k++) t -= l[i * m + k] * l[j * m + k];
-      l[i * m + j] = t / pivot;
-    }
-  }
-  return true;
-}
-
-/**
- * The approximate Wolfe conditions of Hager and Zhang (2005, "A new conjugate gradient method with
- * guaranteed descent and an efficient line search", SIAM J. Optim. 16(1), eq. 4.3) with δ = 0.1 and
- * σ = 0.9: σ·φ'(0) ≤ φ'(t) ≤ (2δ − 1)·φ'(0), where φ(t) is the objective along the search direction,
- * together with φ(t) ≤ φ(0) + ε·|φ(0)| — here ε = 1e-10, a few hundred times the rounding error of a
- * sum of a few thousand terms, so that only steps that change the objective by rounding qualify.
- */
-function approximateWolfe(f: number, fTrial: number, slope: number, trialSlope: number): boolean {
-  return fTrial <= f + 1e-10 * Math.abs(f) && 0.9 * slope <= trialSlope && trialSlope <= -0.8 * slope;
 }
 
 /**
@@ -570,11 +581,12 @@ function fitMultinomial(
   classes: number,
   options: ResolvedLogisticOptions,
   start?: Float64Array,
+  euclidean = false,
 ): LinearFit {
   const stride = p + 1;
   const size = classes * stride;
   const objective = new MultinomialObjective(new SoftmaxLoss(x, y, n, p, classes), n, p, classes, 1 / (options.C * n));
-  const result = minimizeLbfgs(objective, start ?? new Float64Array(size), n, options);
+  const result = minimizeLbfgs(objective, start ?? new Float64Array(size), lbfgsOptions(options, n, euclidean, size));
   const theta = result.solution;
   const coefficients = new Float64Array(classes * p);
   const intercepts = new Float64Array(classes);
@@ -585,11 +597,6 @@ function fitMultinomial(
     intercepts[k] = theta[k * stride + p] - interceptMean;
   }
   return { coefficients, intercepts, iterations: result.iterations, converged: result.converged };
-}
-
-/** An objective for {@link minimizeLbfgs}: its value at θ, with its gradient written into `gradient`. */
-interface Objective {
-  evaluate(theta: Float64Array, gradient: Float64Array): number;
 }
 
 /**
@@ -626,265 +633,19 @@ class MultinomialObjective implements Objective {
 }
 
 /**
- * Limited-memory BFGS (Nocedal and Wright 2006, algorithm 7.5, with the two-loop recursion of
- * algorithm 7.4 and the initial scaling sᵀy / yᵀy of equation 7.20), keeping `memory` correction pairs.
- * Each step backtracks from the full step until Armijo's sufficient-decrease condition holds (halving,
- * or the minimizer of the quadratic through the trial point when that is inside [0.1, 0.5] of it).
- * A pair with sᵀy ≤ 0 is skipped, keeping the inverse-Hessian estimate positive definite.
- * Near the optimum the decrease Armijo's condition asks for falls below the rounding error of the
- * objective; a step is then also accepted under the approximate Wolfe conditions (see
- * {@link approximateWolfe}), which judge it by the slope at the trial point.
- * Stops when a stopping test of {@link LogisticOptions} is met (converged), after maxIterations, or
- * when no step is accepted even from steepest descent (not converged).
- *
- * With the objective's sums in WebAssembly, this bookkeeping was a third of a fit's time; each update
- * of the recursion is therefore fused with the next pair's dot product (one pass over the vector
- * instead of two), and the loops keep four partial sums.
+ * The optimiser's settings for a fit on n rows: the gradient of scikit-learn's objective F = n·f at
+ * most `tolerance` means f's at most tolerance / n; the relative-decrease test judges F. The vectors
+ * live in a work array of this thread (scratch.ts), so the solution is read before the next fit.
  */
-function minimizeLbfgs(
-  objective: Objective,
-  start: Float64Array,
-  n: number,
-  options: ResolvedLogisticOptions,
-  memory = 10,
-): { solution: Float64Array; iterations: number; converged: boolean } {
-  const gradientBound = options.tolerance / n;
-  const maxIterations = options.maxIterations;
-  const size = start.length;
-  // The vectors live in one work array of this thread (scratch.ts), each written before it is read:
-  // the solution returned is one of them, to be read before the next fit on this thread.
-  const work = scratchDoubles("logistic.lbfgs", (7 + 2 * memory) * size);
-  const vector = (index: number) => work.subarray(index * size, (index + 1) * size);
-  let x = vector(0);
-  x.set(start);
-  let trial = vector(1);
-  let gradient = vector(2);
-  let trialGradient = vector(3);
-  const direction = vector(4);
-  const alpha = new Float64Array(memory);
-  const rho = new Float64Array(memory);
-  // sᵀy / yᵀy of each pair, the scaling of the initial inverse Hessian when the pair is the newest.
-  const scaling = new Float64Array(memory);
-  const s = Array.from({ length: memory }, (_, c) => vector(7 + c));
-  const yDiff = Array.from({ length: memory }, (_, c) => vector(7 + memory + c));
-  // A new pair is written here first and swapped into the ring only if it is kept.
-  let spareS = vector(5);
-  let spareY = vector(6);
-  const order = new Int32Array(memory); // ring slots from the newest pair to the oldest
-  const pairProducts = new Float64Array(2); // sᵀy and yᵀy of the newest pair
-  let stored = 0; // pairs held
-  let newest = -1; // slot of the newest pair in the ring
-  let f = objective.evaluate(x, gradient);
-  if (!Number.isFinite(f)) throw new FitError(message.objectiveNotFinite());
-  let iterations = 0;
-  let converged = false;
-  let justReset = false;
-
-  for (;;) {
-    if (maxAbs(gradient) <= gradientBound) {
-      converged = true;
-      break;
-    }
-    if (iterations >= maxIterations) break;
-    iterations++;
-
-    // Two-loop recursion: direction = −H g.
-    let initialStep = 1;
-    if (stored > 0) {
-      for (let c = 0; c < stored; c++) order[c] = (newest - c + memory) % memory;
-      // q = −g, then for the pairs from the newest: αᵢ = ρᵢ sᵢ·q, q −= αᵢ yᵢ.
-      let product = negateAndDot(gradient, direction, s[order[0]]);
-      for (let c = 0; c < stored; c++) {
-        const slot = order[c];
-        alpha[slot] = rho[slot] * product;
-        product = axpyThenDot(direction, -alpha[slot], yDiff[slot], c + 1 < stored ? s[order[c + 1]] : null);
-      }
-      // r = γ q, then for the pairs from the oldest: β = ρᵢ yᵢ·r, r += (αᵢ − β) sᵢ.
-      product = scaleAndDot(direction, scaling[newest], yDiff[order[stored - 1]]);
-      for (let c = stored - 1; c >= 0; c--) {
-        const slot = order[c];
-        const beta = rho[slot] * product;
-        product = axpyThenDot(direction, alpha[slot] - beta, s[slot], c > 0 ? yDiff[order[c - 1]] : null);
-      }
-    } else {
-      // First step (or after a reset): steepest descent, scaled to move by at most 1 in any entry.
-      negate(gradient, direction);
-      initialStep = Math.min(1, 1 / maxAbs(gradient));
-    }
-    let slope = dot(gradient, direction);
-    if (!(slope < 0)) {
-      // Not a descent direction (rounding): fall back to steepest descent and forget the pairs.
-      negate(gradient, direction);
-      slope = -dot(gradient, gradient);
-      initialStep = Math.min(1, 1 / maxAbs(gradient));
-      stored = 0;
-    }
-
-    // Backtracking line search.
-    let t = initialStep;
-    let accepted = false;
-    let fTrial = f;
-    for (let attempt = 0; attempt < 40; attempt++) {
-      stepAlong(x, t, direction, trial);
-      fTrial = objective.evaluate(trial, trialGradient);
-      if (fTrial <= f + 1e-4 * t * slope || approximateWolfe(f, fTrial, slope, dot(trialGradient, direction))) {
-        accepted = true;
-        break;
-      }
-      // Minimizer of the quadratic matching f, the slope and fTrial, kept within [0.1 t, 0.5 t].
-      const curvature = fTrial - f - slope * t;
-      let next = Number.isFinite(curvature) && curvature > 0 ? (-slope * t * t) / (2 * curvature) : t / 2;
-      next = Math.min(0.5 * t, Math.max(0.1 * t, next));
-      t = next;
-    }
-    if (!accepted) {
-      // Retry once from steepest descent with the pairs forgotten; a second failure in a row means
-      // no step can decrease the objective any more.
-      if (justReset) break;
-      justReset = true;
-      stored = 0;
-      iterations--;
-      continue;
-    }
-    justReset = false;
-
-    // The correction pair s = Δx, y = Δg, kept when its curvature sᵀy is positive.
-    correctionPair(x, trial, gradient, trialGradient, spareS, spareY, pairProducts);
-    const sy = pairProducts[0];
-    const yy = pairProducts[1];
-    if (sy > 1e-12 * yy && sy > 0) {
-      const slot = (newest + 1) % memory;
-      const oldS = s[slot];
-      s[slot] = spareS;
-      spareS = oldS;
-      const oldY = yDiff[slot];
-      yDiff[slot] = spareY;
-      spareY = oldY;
-      rho[slot] = 1 / sy;
-      scaling[slot] = sy / yy;
-      newest = slot;
-      stored = Math.min(stored + 1, memory);
-    }
-    const swapX = x;
-    x = trial;
-    trial = swapX;
-    const swapGradient = gradient;
-    gradient = trialGradient;
-    trialGradient = swapGradient;
-    const fPrevious = f;
-    f = fTrial;
-    if (maxAbs(gradient) > gradientBound && decreasedLittle(fPrevious, f, options.relativeDecrease, n)) {
-      converged = true;
-      break;
-    }
-  }
-  return { solution: x, iterations, converged };
-}
-
-// The loops over the parameters live in small functions of their own: V8 optimizes a small function
-// after a few calls, while a loop inside the optimizer's long one waited for a slow compilation of
-// the whole, running unoptimized (boxing every number) for much of each thread's first fits.
-
-/** Sets `out` = −g. */
-function negate(g: Float64Array, out: Float64Array): void {
-  for (let i = 0; i < g.length; i++) out[i] = -g[i];
-}
-
-/** Sets `out` = x + t · direction. */
-function stepAlong(x: Float64Array, t: number, direction: Float64Array, out: Float64Array): void {
-  for (let i = 0; i < x.length; i++) out[i] = x[i] + t * direction[i];
-}
-
-/**
- * The correction pair of a step from x to `trial`: s = trial − x into `s`, y = trialGradient −
- * gradient into `y`, and [sᵀy, yᵀy] into `products`.
- */
-function correctionPair(
-  x: Float64Array,
-  trial: Float64Array,
-  gradient: Float64Array,
-  trialGradient: Float64Array,
-  s: Float64Array,
-  y: Float64Array,
-  products: Float64Array,
-): void {
-  let sy = 0;
-  let yy = 0;
-  for (let i = 0; i < x.length; i++) {
-    const ds = trial[i] - x[i];
-    const dy = trialGradient[i] - gradient[i];
-    s[i] = ds;
-    y[i] = dy;
-    sy += ds * dy;
-    yy += dy * dy;
-  }
-  products[0] = sy;
-  products[1] = yy;
-}
-
-/** Sets `out` = −g and returns a·out, in one pass. */
-function negateAndDot(g: Float64Array, out: Float64Array, a: Float64Array): number {
-  let d0 = 0;
-  let d1 = 0;
-  const size = g.length;
-  let i = 0;
-  for (; i + 1 < size; i += 2) {
-    const v0 = -g[i];
-    const v1 = -g[i + 1];
-    out[i] = v0;
-    out[i + 1] = v1;
-    d0 += a[i] * v0;
-    d1 += a[i + 1] * v1;
-  }
-  for (; i < size; i++) {
-    out[i] = -g[i];
-    d0 += a[i] * out[i];
-  }
-  return d0 + d1;
-}
-
-/** Sets `v` = γ v and returns a·v, in one pass. */
-function scaleAndDot(v: Float64Array, gamma: number, a: Float64Array): number {
-  let d0 = 0;
-  let d1 = 0;
-  const size = v.length;
-  let i = 0;
-  for (; i + 1 < size; i += 2) {
-    const v0 = gamma * v[i];
-    const v1 = gamma * v[i + 1];
-    v[i] = v0;
-    v[i + 1] = v1;
-    d0 += a[i] * v0;
-    d1 += a[i + 1] * v1;
-  }
-  for (; i < size; i++) {
-    v[i] *= gamma;
-    d0 += a[i] * v[i];
-  }
-  return d0 + d1;
-}
-
-/** Sets `v` += c·u and returns a·v (0 without `a`), in one pass. */
-function axpyThenDot(v: Float64Array, c: number, u: Float64Array, a: Float64Array | null): number {
-  const size = v.length;
-  if (a === null) {
-    for (let i = 0; i < size; i++) v[i] += c * u[i];
-    return 0;
-  }
-  let d0 = 0;
-  let d1 = 0;
-  let i = 0;
-  for (; i + 1 < size; i += 2) {
-    const v0 = v[i] + c * u[i];
-    const v1 = v[i + 1] + c * u[i + 1];
-    v[i] = v0;
-    v[i + 1] = v1;
-    d0 += a[i] * v0;
-    d1 += a[i + 1] * v1;
-  }
-  for (; i < size; i++) {
-    v[i] += c * u[i];
-    d0 += a[i] * v[i];
-  }
-  return d0 + d1;
+function lbfgsOptions(options: ResolvedLogisticOptions, n: number, euclidean: boolean, size: number): LbfgsOptions {
+  const memory = 10;
+  return {
+    gradientTolerance: options.tolerance / n,
+    euclidean,
+    relativeDecrease: options.relativeDecrease,
+    objectiveScale: n,
+    maxIterations: options.maxIterations,
+    memory,
+    work: scratchDoubles("logistic.lbfgs", (7 + 2 * memory) * size),
+  };
 }

@@ -22,7 +22,8 @@ import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, nonNegative } from "./settings.js";
-import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
+import { softmaxRows, spreadOverClasses } from "./classProbabilities.js";
+import { summarizeClasses } from "./trainingChecks.js";
 
 export interface NaiveBayesOptions {
   /** Fraction of the largest feature variance added to every variance (scikit-learn's `var_smoothing`). @default 1e-9 */

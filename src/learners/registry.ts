@@ -11,6 +11,8 @@ import { LinearDiscriminant } from "./lda.js";
 import { LogisticRegression } from "./logistic.js";
 import { GaussianNaiveBayes } from "./naiveBayes.js";
 import { RidgeRegression } from "./ridge.js";
+import { releaseScratch } from "./scratch.js";
+import { releaseSoftmaxMemory } from "./softmaxKernel.js";
 import { LinearSvm } from "./svm.js";
 
 const factories: Record<string, () => Learner> = {
@@ -59,4 +61,16 @@ export function createLearner(name: string): Learner | undefined {
 /** A fresh learner for numeric targets of that name, or undefined when the name is unknown. */
 export function createRegressionLearner(name: string): RegressionLearner | undefined {
   return Object.hasOwn(regressionFactories, name) ? regressionFactories[name]() : undefined;
+}
+
+/**
+ * Memory the learners keep on a thread between fits (work arrays, a WebAssembly kernel's memory),
+ * released by {@link releaseLearnerMemory}. A learner with such memory adds its release here, so that
+ * the curve loop knows no learner's internals.
+ */
+const releases: (() => void)[] = [releaseScratch, releaseSoftmaxMemory];
+
+/** Gives back the memory the learners keep on this thread between fits; they reallocate it when next fitting. */
+export function releaseLearnerMemory(): void {
+  for (const release of releases) release();
 }

@@ -12,11 +12,12 @@
  * b = ȳ − x̄·w. With α = 0 and a singular XcᵀXc, the minimum-norm solution is taken.
  *
  * Written by hand: the fit is one pass forming the p × p normal equations and a Cholesky solve on raw
- * Float64Arrays (ml-matrix 6.15.1's element access is slower than such loops), fast enough for the hundreds of fits of a learning curve.
+ * Float64Arrays (src/numerics/linearAlgebra.ts), fast enough for the hundreds of fits of a learning
+ * curve.
  */
 import type { RandomStream } from "../random.js";
 import type { FittedRegressionModel, LearnerSettings, RegressionLearner, RegressionTrainingSet } from "./learner.js";
-import { choleskyInPlace, choleskySolveInPlace, minimumNormSolve } from "./linearAlgebra.js";
+import { choleskyInPlace, choleskySolveInPlace, minimumNormSolve } from "../numerics/linearAlgebra.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, nonNegative } from "./settings.js";
 import { checkRegressionSet } from "./trainingChecks.js";

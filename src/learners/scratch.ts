@@ -1,12 +1,12 @@
 /**
  * Work arrays reused from one fit to the next on the same thread.
  *
- * A learning curve runs hundreds of fits, each of which used to allocate its standardized copy of the
- * training rows, of the held-out rows and other arrays as large as the data. Typed arrays live outside
- * the JavaScript heap, and V8 collects dead ones only after some 32 MiB of them have piled up (measured
- * on Node 20, for any young-generation size), so those copies alone held the process's memory some
- * 30 MiB above what the fits needed, in every thread. A fit instead borrows its work arrays here: one
- * per purpose and thread, grown to the largest length asked for and then reused.
+ * A learning curve runs hundreds of fits, each needing a standardized copy of the training rows, of
+ * the held-out rows and other arrays as large as the data. Typed arrays live outside the JavaScript
+ * heap, and V8 collects dead ones only after tens of MiB of them have piled up, so copies allocated
+ * per fit would hold the process's memory well above what the fits need, in every thread. A fit
+ * instead borrows its work arrays here: one per purpose and thread, grown to the largest length asked
+ * for and then reused.
  *
  * What a borrowed array holds is valid only until the next borrowing for the same purpose on the same
  * thread, so only hand out arrays that do not outlive a call (never one returned to a caller or kept in

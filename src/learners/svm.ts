@@ -31,10 +31,12 @@
  */
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
-import { linearScores } from "./linearAlgebra.js";
+import { gramMatrix, linearScores } from "../numerics/linearAlgebra.js";
+import { wideEnough } from "./rowSpace.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, positive, wholeNumber } from "./settings.js";
-import { softmaxRows, spreadOverClasses, summarizeClasses } from "./trainingChecks.js";
+import { softmaxRows, spreadOverClasses } from "./classProbabilities.js";
+import { summarizeClasses } from "./trainingChecks.js";
 
 export interface SvmOptions {
   /** Weight of the hinge losses against the penalty (scikit-learn's `C`); larger means a weaker penalty. @default 1 */
@@ -103,10 +105,16 @@ export class LinearSvm implements Learner {
     const signs = new Int8Array(rows);
     let iterations = 0;
     let converged = true;
+    // Wide data: the same descent on the Gram matrix of the rows (x̃ᵢ·x̃ⱼ, the constant feature
+    // included), shared by the one-vs-rest problems, so that an update costs n instead of p.
+    const gram = wideEnough(rows, p) ? gramMatrix(x, rows, p).map((v) => v + 1) : null;
     for (let k = 0; k < problems; k++) {
       const positiveClass = classes === 2 ? 1 : k;
       for (let i = 0; i < rows; i++) signs[i] = positions[i] === positiveClass ? 1 : -1;
-      const result = dualCoordinateDescent(x, rows, p, signs, this.options, random);
+      const result =
+        gram === null
+          ? dualCoordinateDescent(x, rows, p, signs, this.options, random)
+          : dualCoordinateDescentOnGram(x, gram, rows, p, signs, this.options, random);
       weights.set(result.weights.subarray(0, p), k * p);
       intercepts[k] = result.weights[p];
       iterations = Math.max(iterations, result.iterations);
@@ -280,4 +288,100 @@ function dualCoordinateDescent(
     projectedMinOld = projectedMin >= 0 ? -Infinity : projectedMin;
   }
   return { weights: w, iterations, converged };
+}
+
+/**
+ * {@link dualCoordinateDescent} for wide data, on the Gram matrix `gram` of the rows with the
+ * constant feature (x̃ᵢ·x̃ⱼ): the same visits, draws, shrinking and updates, with the margins w̃·x̃ᵢ
+ * kept as a vector m = Σⱼ αⱼyⱼ gramⱼ (an update of αᵢ adds a multiple of row i of `gram`, n values
+ * instead of p + 1). w̃ = Σ αᵢ yᵢ x̃ᵢ is formed once at the end.
+ */
+function dualCoordinateDescentOnGram(
+  x: Float64Array,
+  gram: Float64Array,
+  n: number,
+  p: number,
+  signs: Int8Array,
+  options: ResolvedSvmOptions,
+  random: RandomStream,
+): { weights: Float64Array; iterations: number; converged: boolean } {
+  const { C, tolerance, maxIterations } = options;
+  const margins = new Float64Array(n);
+  const alpha = new Float64Array(n);
+  const order = new Int32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  let active = n;
+  let projectedMaxOld = Infinity;
+  let projectedMinOld = -Infinity;
+  let iterations = 0;
+  let converged = false;
+  while (iterations < maxIterations) {
+    let projectedMax = -Infinity;
+    let projectedMin = Infinity;
+    for (let s = 0; s < active; s++) {
+      const t = s + random.integer(active - s);
+      const swap = order[s];
+      order[s] = order[t];
+      order[t] = swap;
+    }
+    for (let s = 0; s < active; s++) {
+      const i = order[s];
+      const y = signs[i];
+      const gradient = y * margins[i] - 1;
+      let projected = 0;
+      const a = alpha[i];
+      if (a === 0) {
+        if (gradient > projectedMaxOld) {
+          active--;
+          order[s] = order[active];
+          order[active] = i;
+          s--;
+          continue;
+        }
+        if (gradient < 0) projected = gradient;
+      } else if (a === C) {
+        if (gradient < projectedMinOld) {
+          active--;
+          order[s] = order[active];
+          order[active] = i;
+          s--;
+          continue;
+        }
+        if (gradient > 0) projected = gradient;
+      } else {
+        projected = gradient;
+      }
+      if (projected > projectedMax) projectedMax = projected;
+      if (projected < projectedMin) projectedMin = projected;
+      if (Math.abs(projected) > 1e-12) {
+        const updated = Math.min(Math.max(a - gradient / gram[i * n + i], 0), C);
+        alpha[i] = updated;
+        const d = (updated - a) * y;
+        const row = i * n;
+        for (let j = 0; j < n; j++) margins[j] += d * gram[row + j];
+      }
+    }
+    iterations++;
+    if (projectedMax - projectedMin <= tolerance) {
+      if (active === n) {
+        converged = true;
+        break;
+      }
+      active = n;
+      projectedMaxOld = Infinity;
+      projectedMinOld = -Infinity;
+      continue;
+    }
+    projectedMaxOld = projectedMax <= 0 ? Infinity : projectedMax;
+    projectedMinOld = projectedMin >= 0 ? -Infinity : projectedMin;
+  }
+  const weights = new Float64Array(p + 1);
+  for (let i = 0; i < n; i++) {
+    const d = alpha[i] * signs[i];
+    if (d === 0) continue;
+    const offset = i * p;
+    for (let j = 0; j < p; j++) weights[j] += d * x[offset + j];
+    weights[p] += d;
+  }
+  return { weights, iterations, converged };
 }

@@ -16,6 +16,7 @@ import type { DecisionRow } from "./decisionFile.js";
 import { costOfRuns, monthsOfRuns, type ResolvedPlan } from "./plan.js";
 import type { ProjectionGrid } from "./projectionGrid.js";
 import { runYield } from "./yields.js";
+import { quantileSorted } from "../forecast/quantile.js";
 
 /** What the table is computed from besides the plan. */
 export interface TableContext {
@@ -226,17 +227,6 @@ export function shareAtLeast(values: readonly number[], target: number, sign: nu
   let hits = 0;
   for (const value of values) if (sign * (value - target) >= 0) hits++;
   return hits / values.length;
-}
-
-/**
- * Quantile of sorted values by linear interpolation between order statistics (Hyndman and Fan 1996,
- * definition 7; the default of R and NumPy), as the forecast computes its intervals.
- */
-export function quantileSorted(sorted: readonly number[], probability: number): number {
-  const position = (sorted.length - 1) * probability;
-  const below = Math.floor(position);
-  const above = Math.min(below + 1, sorted.length - 1);
-  return sorted[below] + (position - below) * (sorted[above] - sorted[below]);
 }
 
 function clampTo(range: [number, number] | undefined): (score: number) => number {

@@ -28,6 +28,7 @@ import { sensitivityOfRecommendation } from "./sensitivity.js";
 import { heldOutNeededExact, heldOutNeededWilson } from "./validationSize.js";
 import { sampleInformationValue } from "./valueOfInformation.js";
 import { scaledYield, sizesToProject } from "./yields.js";
+import { mean } from "../numerics/statistics.js";
 
 export interface WeighOptions {
   /**
@@ -206,7 +207,6 @@ function pilotInformation(
   const scoresAt = (size: number) => drawIndices.map((j) => grid.drawAt(size, j));
   const todayScores = scoresAt(today);
   const finalScores = scoresAt(sizeAfter(programme));
-  const mean = (values: readonly number[]) => values.reduce((a, b) => a + b, 0) / values.length;
   const netOf = (scores: number[], runs: number) =>
     scores.map((score, j) => value * sign * (score - todayScores[j]) - costOfRuns(resolved, runs));
   const commitValue = mean(netOf(finalScores, programme));

@@ -4,7 +4,9 @@ import {
   createRegressionLearner,
   learnerNames,
   regressionLearnerNames,
+  releaseLearnerMemory,
 } from "../../src/learners/registry.js";
+import { scratchDoubles } from "../../src/learners/scratch.js";
 import { UsageError } from "../../src/errors.js";
 import { RandomStream } from "../../src/random.js";
 import { loadOpenData } from "../helpers/openData.js";
@@ -65,5 +67,14 @@ describe("learner registry", () => {
     const options = (learner: unknown) => (learner as { options: Record<string, number> }).options;
     const tuned = logistic.withOptions!({ C: 10 });
     expect(options(tuned)).toEqual({ ...options(logistic), C: 10 });
+  });
+});
+
+describe("releaseLearnerMemory", () => {
+  it("drops the learners' work arrays on this thread, so that the next fit allocates anew", () => {
+    const before = scratchDoubles("test.release", 8);
+    expect(scratchDoubles("test.release", 8).buffer).toBe(before.buffer);
+    releaseLearnerMemory();
+    expect(scratchDoubles("test.release", 8).buffer).not.toBe(before.buffer);
   });
 });

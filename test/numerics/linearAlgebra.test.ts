@@ -5,7 +5,7 @@ import {
   choleskySolveInPlace,
   minimumNormSolve,
   symmetricEigen,
-} from "../../src/learners/linearAlgebra.js";
+} from "../../src/numerics/linearAlgebra.js";
 
 /** A·B for row-major square matrices. */
 function multiply(a: Float64Array, b: Float64Array, n: number): Float64Array {

@@ -82,12 +82,13 @@ const validationConfidence = 0.95;
 /**
  * Builds the decision.
  *
- * Phases: resolve the plan's defaults; check the forecast holds the sizes the plan reaches; the
+ * Phases: resolve the plan's defaults; check the forecast can be read at the sizes the plan reaches
+ * (any size when it stores its curves; else it must project to each of them); the
  * table and its rules (decisionTable.ts); the clinical minimum; the value of information of pilots;
  * the sensitivity of the recommendation; the validation-set size; the reasons and cautions.
  *
  * @param forecastFileName for messages
- * @throws DataError naming the training sizes the forecast lacks
+ * @throws DataError naming the training sizes a forecast without stored curves lacks
  */
 export function weighRuns(
   forecast: ForecastFile,
@@ -101,7 +102,7 @@ export function weighRuns(
   const grid = new ProjectionGrid(forecast);
   const required = sizesToProject(resolved.yieldModel, today, plan.maxRuns);
   const projected = new Set(grid.sizes);
-  const missing = required.filter((size) => !projected.has(size));
+  const missing = grid.readsAnySize ? [] : required.filter((size) => !projected.has(size));
   if (missing.length > 0) throw new DataError(message.missingProjections(forecastFileName, missing, required));
 
   // Orientation: +1 when a higher score is better, so that `sign * difference` is always a gain.

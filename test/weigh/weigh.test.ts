@@ -129,7 +129,7 @@ describe("weighRuns", () => {
   it("names the training sizes the forecast lacks", () => {
     const plan = planSchema.parse({ samplesPerRun: 60, costPerRun: 1, maxRuns: 2, valuePerPoint: 1 });
     expect(() => weighRuns(forecast(projections), plan, "f.json")).toThrow(
-      "f.json: the forecast has no projection at training sizes 160, 220; rerun headroom forecast with --at 100,160,220",
+      "f.json: the forecast has no projection at training sizes 160, 220 and, written by an earlier version, keeps no curves to compute them; rerun headroom forecast on the same curve (or add --at 100,160,220)",
     );
   });
 });
@@ -238,7 +238,7 @@ describe("uncertain yields", () => {
   it("names the sizes an uncertain yield needs", () => {
     const plan = planSchema.parse({ samplesPerRunRange: [30, 50], costPerRun: 1, maxRuns: 1, valuePerPoint: 1 });
     expect(() => weighRuns(forecast(projections), plan, "f.json")).toThrow(
-      "f.json: the forecast has no projection at training sizes 130, 140; rerun headroom forecast with --at 100,130,140,150",
+      "f.json: the forecast has no projection at training sizes 130, 140 and, written by an earlier version, keeps no curves to compute them; rerun headroom forecast on the same curve (or add --at 100,130,140,150)",
     );
   });
 });

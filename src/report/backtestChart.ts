@@ -13,7 +13,7 @@ import {
   type ChartOptions,
   type Panel,
 } from "./chartCommon.js";
-import { describeMetric, formatCount, formatNumber, formatScore, scoreStyle, type MetricInfo } from "./format.js";
+import { describeMetric, formatCount, formatNumber, formatScore, scoreStyle, type MetricInfo } from "../format.js";
 import { chartConfig, okabeIto, palette } from "./theme.js";
 
 /** What the backtest chart shows: the predictions and, when known, each family's weight. */

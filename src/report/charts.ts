@@ -27,7 +27,7 @@ import {
   formatScore,
   scoreStyle,
   type MetricInfo,
-} from "./format.js";
+} from "../format.js";
 import { learningCurveChart } from "./learningCurveChart.js";
 import { netValueChart } from "./netValueChart.js";
 import type { ReportInput } from "./reportInput.js";

@@ -33,12 +33,21 @@ import {
   formatNumber,
   formatProbability,
   formatScore,
+  formatSignificant,
   moreRuns,
   ordinalInWords,
   scoreStyle,
   type MetricInfo,
   type ScoreStyle,
-} from "./format.js";
+} from "../format.js";
+import {
+  factsOfDecision,
+  informationSentence,
+  limitsInWords,
+  peopleCaution,
+  recommendationSentence,
+  stopSentence,
+} from "../weigh/decisionWords.js";
 import { planFacts } from "./planFacts.js";
 import type { ReportInput } from "./reportInput.js";
 import { fontStack, palette } from "./theme.js";
@@ -266,60 +275,6 @@ function targetSentence(
   return `Reaching the target of ${targetText} with ${confidence} confidence takes ${runs}${cost}.`;
 }
 
-/** Why the recommendation is what it is, in one sentence with the money formatted. */
-function recommendationReason(decision: DecisionFile, rows: Row[], currency?: string): string {
-  const chosen = rows.find((row) => row.runs === decision.recommendedRuns);
-  if (!chosen || chosen.runs === 0) {
-    const next = rows.find((row) => row.runs === 1);
-    return next && !next.affordable
-      ? "No further run fits within the budget and deadline."
-      : "No number of further runs is expected to add more value than it costs.";
-  }
-  let reason =
-    `${capitalise(countInWords(chosen.runs))} further ${chosen.runs === 1 ? "run has" : "runs have"} the highest ` +
-    `expected net value within the budget and deadline: ${formatMoney(chosen.expectedNetValue, currency)}`;
-  if (chosen.netValueLower !== undefined && chosen.netValueUpper !== undefined) {
-    reason += ` (likely between ${formatMoney(chosen.netValueLower, currency)} and ${formatMoney(chosen.netValueUpper, currency)})`;
-  }
-  reason += ".";
-  if (chosen.probabilityNetPositive !== undefined) {
-    reason += ` The chance that their value exceeds their cost is ${formatProbability(chosen.probabilityNetPositive)}.`;
-  }
-  return reason;
-}
-
-/**
- * The stopping rule in words: after how many runs to stop, because the next run's expected gain is
- * worth less than it costs and no further runs would pay for themselves (or the next run would not
- * fit the budget or deadline).
- */
-function stoppingSentence(
-  decision: DecisionFile,
-  rows: Row[],
-  info: MetricInfo,
-  valuePerPoint: number,
-  currency?: string,
-): string | undefined {
-  const stop = decision.stopAfterRuns;
-  if (stop === undefined || stop === null) return undefined;
-  const next = rows.find((row) => row.runs === stop + 1);
-  const previous = rows.find((row) => row.runs === stop);
-  const when = stop === 0 ? "stop now" : `stop after ${countInWords(stop)} ${stop === 1 ? "run" : "runs"}`;
-  if (!next || !previous) return `By the stopping rule, ${when}.`;
-  if (!next.affordable) {
-    return `By the stopping rule, ${when}: a ${ordinalInWords(next.runs)} run would not fit the budget or deadline.`;
-  }
-  const gain = next.marginalGain ?? improvement(info, previous, next);
-  const worth = valuePerPoint * 100 * gain;
-  const marginalCost = next.cost - previous.cost;
-  return (
-    `By the stopping rule, ${when}: a ${ordinalInWords(next.runs)} run is expected to add a gain worth ` +
-    `${formatMoney(worth, currency)}, ${worth < marginalCost ? "less" : "no more"} than the ` +
-    `${formatMoney(marginalCost, currency)} it costs` +
-    `${next.runs < decision.plan.maxRuns ? ", and no more runs would pay for themselves either" : ""}.`
-  );
-}
-
 // ---------------------------------------------------------------------------------------------------
 // Sections, one template each. Every argument that holds user text is escaped here.
 
@@ -360,16 +315,22 @@ function meaningSection(input: ReportInput, info: MetricInfo): string {
     const facts = planFacts(plan, decision.valueBasis);
     const unit = info.isFraction ? "each percentage point" : "each 0.01";
     const rows = sortedRows(decision);
+    const words = factsOfDecision(decision);
     sentences.push(
       `Each further run adds ${formatCount(decision.expectedYieldPerRun ?? facts.samplesPerRun)} labelled samples and costs ` +
         `${formatMoney(plan.costPerRun, currency)}. The expected net value counts ${unit} of ` +
         `${info.inSentence} gained as worth ${formatMoney(facts.valuePerPoint, currency)} and subtracts the cost ` +
         `of the runs.`,
-      recommendationReason(decision, rows, currency),
+      recommendationSentence(words, { currency }),
     );
-    const stop = stoppingSentence(decision, rows, info, facts.valuePerPoint, currency);
+    const chance = rows.find((row) => row.runs === decision.recommendedRuns)?.probabilityNetPositive;
+    if (decision.recommendedRuns > 0 && chance !== undefined) {
+      sentences.push(`The chance that their value exceeds their cost is ${formatProbability(chance)}.`);
+    }
+    const stop = stopSentence(words, { currency });
     if (stop) sentences.push(stop);
-    if (decision.reasons.valueOfInformation) sentences.push(decision.reasons.valueOfInformation);
+    const information = informationSentence(decision.valueOfInformation, { currency });
+    if (information) sentences.push(information);
   }
   return `<section id="meaning">
 <h2>What this means</h2>
@@ -556,14 +517,6 @@ ${items.map((item) => `<li>${escapeHtml(item)}</li>`).join("\n")}
 </section>`;
 }
 
-/** The field a domain concerns, for the caution about people: "health", "safety" or both. */
-function domainConcern(domain: string): string {
-  const d = domain.toLowerCase();
-  if (/safety/.test(d)) return "safety";
-  if (/clinic|health|medic|care|hospital|patient/.test(d)) return "health";
-  return "health or safety";
-}
-
 /**
  * How far the report's projections reach: the largest size it speaks of (the plan's last row, else
  * the largest projection) as a multiple of the largest measured size.
@@ -576,8 +529,18 @@ function extrapolationRatio(forecast: ForecastFile, decision: DecisionFile | und
   return largest === undefined ? undefined : largest / forecast.largestMeasuredSize;
 }
 
+/**
+ * The field of use the page speaks of, in this order: the report's own (`--domain`, or the study's
+ * context), else the decision's (`domain` in decision.json: the plan's, or the one weigh was given),
+ * else the plan's as echoed in the decision.
+ */
+export function reportDomain(input: ReportInput): string | undefined {
+  const candidates = [input.domain, input.decision?.domain, input.decision?.plan.domain];
+  return candidates.find((d): d is string => d !== undefined && d.trim() !== "")?.trim();
+}
+
 function cautionsSection(input: ReportInput): string {
-  const { forecast, domain, decision } = input;
+  const { forecast, decision } = input;
   const ratio = extrapolationRatio(forecast, decision);
   const cautions = [
     `Projections are not validation. The projected scores extend a curve fitted up to ` +
@@ -587,16 +550,12 @@ function cautionsSection(input: ReportInput): string {
       `on more data still has to be scored on data it has not seen before anyone relies on it.`,
     `Cross-validated scores describe data like this data set; another site, period or population can ` + `score lower.`,
   ];
-  if (domain !== undefined && domain.trim() !== "") {
-    cautions.push(
-      `This model informs decisions about people's ${domainConcern(domain)} (field: ${domain.trim()}). ` +
-        `Projections are not validation: independent validation, the applicable regulatory requirements and ` +
-        `licensed professional practice decide whether and how such a model may be used.`,
-    );
-  }
-  // The weighing's own cautions, leaving out those that repeat "projections are not validation".
-  for (const caution of decision?.cautions ?? []) {
-    if (!/projections are not validation/i.test(caution) && !cautions.includes(caution)) cautions.push(caution);
+  // Every caution of the decision, word for word; then the caution about people when the decision
+  // does not already carry it (no decision, or a field of use given to the report alone).
+  for (const caution of decision?.cautions ?? []) if (!cautions.includes(caution)) cautions.push(caution);
+  const people = peopleCaution(reportDomain(input), decision?.plan.clinical !== undefined);
+  if (people !== null && !cautions.some((c) => c.startsWith("This model informs decisions about people"))) {
+    cautions.push(people);
   }
   if (decision?.reasons.clinical) cautions.push(decision.reasons.clinical);
   const warningList = (heading: string, list: readonly string[] | undefined) =>
@@ -646,7 +605,7 @@ function validationBlock(input: ReportInput): string {
 /** Fitted parameters as "a = 0.9012, b = 2.03, c = 0.4987" (four significant digits). */
 function parametersInWords(parameters: Record<string, number>): string {
   return Object.entries(parameters)
-    .map(([name, value]) => `${name} = ${Number.isFinite(value) ? Number(value.toPrecision(4)) : value}`)
+    .map(([name, value]) => `${name} = ${formatSignificant(value)}`)
     .join(", ");
 }
 
@@ -817,6 +776,7 @@ function methodsSection(input: ReportInput, info: MetricInfo): string {
 
   const weighing: string[] = [];
   if (decision) {
+    const limits = limitsInWords(decision.plan);
     weighing.push(
       `The chance of reaching the target is the share of drawn curves that reach it at that size. The expected ` +
         `net value is the value of a point times the expected gain in points over today, minus the cost of the ` +
@@ -824,12 +784,14 @@ function methodsSection(input: ReportInput, info: MetricInfo): string {
         (decision.table.some((row) => row.netValueLower !== undefined)
           ? `; its interval and the chance that it is positive are taken draw by draw`
           : "") +
-        `. The recommendation is the number of runs with the highest expected net value within the budget and ` +
-        `deadline.`,
+        `. The recommendation is the number of runs with the highest expected net value` +
+        (limits ? ` within ${limits}.` : ` up to the plan's ${formatCount(decision.plan.maxRuns)} runs.`),
     );
     if (decision.stopAfterRuns !== undefined && decision.stopAfterRuns !== null) {
       weighing.push(
-        `The stopping rule stops when no further number of runs within the budget and deadline is expected to add a gain worth more than it adds to the cost (so a fixed cost paid with the first run does not stop a programme that pays off over several runs).`,
+        `The stopping rule stops when no further number of runs${limits ? ` within ${limits}` : ""} is expected to ` +
+          `add a gain worth more than it adds to the cost (so a fixed cost paid with the first run does not stop a ` +
+          `programme that pays off over several runs).`,
       );
     }
     if (decision.valueOfInformation) {
@@ -914,6 +876,9 @@ function reproducibilityFooter(input: ReportInput, charts: ReportChart[]): strin
   const items = [
     `<dt>Tool</dt><dd>headroom ${escapeHtml(reproducibility.toolVersion)}</dd>`,
     `<dt>Seed</dt><dd>${escapeHtml(String(seed))}</dd>`,
+    ...(reportDomain(input) !== undefined
+      ? [`<dt>Field of use</dt><dd>${escapeHtml(reportDomain(input) as string)}</dd>`]
+      : []),
     ...(sha ? [`<dt>Input SHA-256</dt><dd><code>${escapeHtml(sha)}</code></dd>`] : []),
     ...(reproducibility.command
       ? [`<dt>Command</dt><dd><code>${escapeHtml(reproducibility.command)}</code></dd>`]

@@ -15,7 +15,7 @@ import {
   type ChartOptions,
   type Layer,
 } from "./chartCommon.js";
-import { describeMetric, formatLevel, formatMoney, formatProbability } from "./format.js";
+import { describeMetric, formatLevel, formatMoney, formatProbability } from "../format.js";
 import { planFacts } from "./planFacts.js";
 import { chartConfig, palette } from "./theme.js";
 

@@ -23,7 +23,7 @@ import {
   formatScore,
   scoreStyle,
   type MetricInfo,
-} from "./format.js";
+} from "../format.js";
 import { chartConfig, palette } from "./theme.js";
 
 /**

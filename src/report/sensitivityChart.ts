@@ -14,7 +14,7 @@ import {
   type ChartOptions,
   type Layer,
 } from "./chartCommon.js";
-import { formatMoney } from "./format.js";
+import { formatMoney } from "../format.js";
 import { chartConfig, palette } from "./theme.js";
 
 /** The recommendation and its expected net value when one factor is moved. */

@@ -17,7 +17,7 @@ import {
   formatScore,
   moreRuns,
   scoreStyle,
-} from "../../src/report/format.js";
+} from "../src/format.js";
 
 const accuracy = describeMetric("accuracy", true);
 const logLoss = describeMetric("log_loss", false);

@@ -5,7 +5,7 @@
  * Everything here is deterministic and locale-free (no `toLocaleString`, whose output depends on the
  * ICU data Node was built with), so the same input gives byte-identical reports everywhere.
  */
-import { findMetric } from "../curve/metrics.js";
+import { findMetric } from "./curve/metrics.js";
 
 /** The minus sign used in prose and tables (U+2212), which lines up with digits unlike "-". */
 const minus = "\u2212";
@@ -26,6 +26,12 @@ export function formatNumber(value: number, decimals = 0): string {
   const body = groupThousands(whole) + (fraction === undefined ? "" : "." + fraction);
   const isZero = Number(fixed) === 0;
   return (value < 0 && !isZero ? minus : "") + body;
+}
+
+/** A number to `digits` significant digits, without trailing zeros or separators: 0.912345 → "0.9123". */
+export function formatSignificant(value: number, digits = 4): string {
+  if (!Number.isFinite(value)) return String(value);
+  return Number(value.toPrecision(digits)).toString();
 }
 
 /** A count of samples or rows: "66,000". */

@@ -67,6 +67,28 @@ export function formatProbability(probability: number): string {
   return `${Math.round(probability * 100)}%`;
 }
 
+/**
+ * An interval's level as odds a lead reads at a glance: 0.8 → "8 in 10", 0.95 → "19 in 20",
+ * 0.99 → "99 in 100" (the smallest of 10, 20, 100 and 1,000 that makes it whole; else a percentage).
+ */
+export function formatOdds(level: number): string {
+  for (const out of [10, 20, 100, 1000]) {
+    const hits = level * out;
+    if (Math.abs(hits - Math.round(hits)) < 1e-9) return `${formatNumber(Math.round(hits))} in ${formatNumber(out)}`;
+  }
+  return formatLevel(level);
+}
+
+/** The text with its first letter in capitals. */
+export function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** The words for an interval of this level: "likely range (8 in 10)". */
+export function likelyRange(level: number): string {
+  return `likely range (${formatOdds(level)})`;
+}
+
 /** An interval level as a percentage: 0.8 → "80%", 0.95 → "95%", 0.995 → "99.5%". */
 export function formatLevel(level: number): string {
   const percent = level * 100;

@@ -15,7 +15,7 @@ import {
   type ChartOptions,
   type Layer,
 } from "./chartCommon.js";
-import { describeMetric, formatLevel, formatMoney, formatProbability } from "../format.js";
+import { capitalise, describeMetric, formatMoney, formatProbability, likelyRange } from "../format.js";
 import { planFacts } from "./planFacts.js";
 import { chartConfig, palette } from "./theme.js";
 
@@ -208,13 +208,13 @@ export function netValueChart(decision: DecisionFile, options: ChartOptions = {}
           {
             field: "netValueLower",
             type: "quantitative" as const,
-            title: `${formatLevel(decision.level)} interval from`,
+            title: `${capitalise(likelyRange(decision.level))}: from`,
             format: ",.0f",
           },
           {
             field: "netValueUpper",
             type: "quantitative" as const,
-            title: `${formatLevel(decision.level)} interval to`,
+            title: `${capitalise(likelyRange(decision.level))}: to`,
             format: ",.0f",
           },
         ]
@@ -290,7 +290,7 @@ export function netValueChart(decision: DecisionFile, options: ChartOptions = {}
       text: "Expected net value of further runs",
       subtitle: [
         `Value of the expected gain in ${info.inSentence} minus the cost of the runs` +
-          (hasInterval ? `; whiskers: ${formatLevel(decision.level)} interval.` : "."),
+          (hasInterval ? `; whiskers: ${likelyRange(decision.level)}.` : "."),
         "Outlined: recommended; faded: over budget or past the deadline.",
       ],
     },
@@ -343,7 +343,7 @@ function describeNetValue(decision: DecisionFile, currency: string | undefined, 
     recommended && recommended.runs > 0
       ? `The recommendation is ${recommended.runs} (${formatMoney(recommended.expectedNetValue, currency)}` +
         (extras?.netValueLower !== undefined && extras.netValueUpper !== undefined
-          ? `, ${formatLevel(decision.level)} interval ${formatMoney(extras.netValueLower, currency)} to ${formatMoney(extras.netValueUpper, currency)}`
+          ? `, ${likelyRange(decision.level)} ${formatMoney(extras.netValueLower, currency)} to ${formatMoney(extras.netValueUpper, currency)}`
           : "") +
         `)` +
         (extras?.probabilityNetPositive !== undefined

@@ -18,7 +18,8 @@ import {
   describeMetric,
   formatCount,
   formatExactScore,
-  formatLevel,
+  capitalise,
+  likelyRange,
   formatProbability,
   formatScore,
   scoreStyle,
@@ -56,7 +57,7 @@ export function scoreChart(
 ): TopLevelSpec {
   const resolved = resolveChartOptions(options);
   const info = describeMetric(decision.metric, decision.higherIsBetter, resolved.metricRange);
-  const levelText = formatLevel(decision.level);
+  const levelText = likelyRange(decision.level);
   const target = decision.plan.target;
 
   const singleBySize = new Map((singleModel?.bounds ?? []).map((b) => [b.trainingSize, b]));
@@ -98,8 +99,8 @@ export function scoreChart(
     { field: "runs", type: "quantitative" as const, title: "Further runs" },
     { field: "trainingSize", type: "quantitative" as const, title: "Training samples", format: ",.0f" },
     { field: "expected", type: "quantitative" as const, title: `Expected ${info.inSentence}`, format: tooltipFormat },
-    { field: "lower", type: "quantitative" as const, title: `${levelText} interval from`, format: tooltipFormat },
-    { field: "upper", type: "quantitative" as const, title: `${levelText} interval to`, format: tooltipFormat },
+    { field: "lower", type: "quantitative" as const, title: `${capitalise(levelText)}: from`, format: tooltipFormat },
+    { field: "upper", type: "quantitative" as const, title: `${capitalise(levelText)}: to`, format: tooltipFormat },
   ];
   const scoreY = (field: string) => ({
     field,
@@ -149,7 +150,7 @@ export function scoreChart(
   }
   const panels: Panel[] = [
     {
-      title: { text: `Expected ${info.inSentence} with its ${levelText} interval`, fontSize: 13 },
+      title: { text: `Expected ${info.inSentence} with its ${levelText}`, fontSize: 13 },
       width: resolved.width,
       height: resolved.panelHeight,
       data: { values: rows },
@@ -204,7 +205,7 @@ export function scoreChart(
     title: {
       text: `What further runs are expected to do to ${info.inSentence}`,
       subtitle: [
-        `Dots: expected ${info.inSentence}; blue bars: its ${levelText} interval.`,
+        `Dots: expected ${info.inSentence}; blue bars: its ${levelText}.`,
         ...(hasSingle
           ? [
               `Thin grey bars: where one model, scored on ${formatCount(singleModel!.testSize)} test samples, ` +
@@ -234,7 +235,7 @@ function describeScores(decision: DecisionFile, info: MetricInfo, singleModel?: 
   const parts = [
     `Expected ${info.inSentence} goes from ${formatScore(first.expected, style)} now to ` +
       `${formatScore(last.expected, style)} after ${last.runs} further runs ` +
-      `(${formatLevel(decision.level)} interval ${formatScore(last.lower, style)} to ${formatScore(last.upper, style)}).`,
+      `(${likelyRange(decision.level)}: ${formatScore(last.lower, style)} to ${formatScore(last.upper, style)}).`,
   ];
   const lastSingle = singleModel?.bounds.find((b) => b.trainingSize === last.trainingSize);
   if (singleModel && lastSingle) {

@@ -44,7 +44,7 @@ const factorWords: Record<string, string> = {
   costPerRun: "Cost per run",
   samplesPerRun: "Samples per run",
   valuePerPoint: "Value per point",
-  asymptote: "Headroom to the curve's ceiling",
+  asymptote: "Room left to improve",
   monthsPerRun: "Months per run",
   fixedCost: "Fixed cost",
   passRate: "Share passing quality control",

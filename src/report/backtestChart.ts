@@ -12,7 +12,7 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Panel,
-} from "./chartCommon.js";
+} from "./chartOptions.js";
 import { describeMetric, formatCount, formatNumber, formatScore, scoreStyle, type MetricInfo } from "../format.js";
 import { chartConfig, okabeIto, palette } from "./theme.js";
 
@@ -263,6 +263,6 @@ function describeBacktest(input: BacktestInput, info: MetricInfo): string {
     `smaller measured sizes and predicted the held-back sizes from ${formatCount(sizes[0])} to ` +
     `${formatCount(sizes[sizes.length - 1])} samples. ${kind} of each: ` +
     errors.map((e) => `${familyLabel(e.family)} ${errorText(e)}${unit}`).join(", ") +
-    `. The smallest is ${familyLabel(best.family)}'s.`
+    `. The smallest is that of ${familyLabel(best.family)}.`
   );
 }

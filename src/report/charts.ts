@@ -17,7 +17,7 @@ import type { TopLevelSpec } from "vega-lite";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import type { DecisionFile, DecisionRow } from "../weigh/decisionFile.js";
 import { backtestChart, familyLabel, type BacktestInput } from "./backtestChart.js";
-import type { ChartOptions } from "./chartCommon.js";
+import type { ChartOptions } from "./chartOptions.js";
 import {
   describeMetric,
   formatCount,
@@ -36,7 +36,7 @@ import { scoreChart, type SingleModelInterval } from "./scoreChart.js";
 import { factorInWords, sensitivityChart, type SensitivityFactor } from "./sensitivityChart.js";
 
 export { backtestChart, backtestErrors, type BacktestInput } from "./backtestChart.js";
-export { vegaLiteSchema, type ChartOptions } from "./chartCommon.js";
+export { vegaLiteSchema, type ChartOptions } from "./chartOptions.js";
 export { learningCurveChart } from "./learningCurveChart.js";
 export { netValueChart, sliderStep, whatIfParameters } from "./netValueChart.js";
 export { scoreChart, type SingleModelInterval } from "./scoreChart.js";

@@ -15,12 +15,13 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Layer,
-} from "./chartCommon.js";
+} from "./chartOptions.js";
 import {
   describeMetric,
   formatCount,
   formatExactScore,
   capitalise,
+  formatOdds,
   likelyRange,
   formatScore,
   scoreStyle,
@@ -290,7 +291,7 @@ function describeLearningCurve(info: MetricInfo, forecast: ForecastFile, decisio
   if (end) {
     parts.push(
       `The fitted curve projects ${score(end.expected)} at ${formatCount(end.trainingSize)} samples ` +
-        `(${likelyRange(forecast.level)}: ${score(end.lower)} to ${score(end.upper)}).`,
+        `(likely between ${score(end.lower)} and ${score(end.upper)}, ${formatOdds(forecast.level)}).`,
     );
   }
   if (decision) {

@@ -14,8 +14,8 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Layer,
-} from "./chartCommon.js";
-import { capitalise, describeMetric, formatMoney, formatProbability, likelyRange } from "../format.js";
+} from "./chartOptions.js";
+import { capitalise, describeMetric, formatMoney, formatOdds, formatProbability, likelyRange } from "../format.js";
 import { planFacts } from "./planFacts.js";
 import { chartConfig, palette } from "./theme.js";
 
@@ -343,7 +343,7 @@ function describeNetValue(decision: DecisionFile, currency: string | undefined, 
     recommended && recommended.runs > 0
       ? `The recommendation is ${recommended.runs} (${formatMoney(recommended.expectedNetValue, currency)}` +
         (extras?.netValueLower !== undefined && extras.netValueUpper !== undefined
-          ? `, ${likelyRange(decision.level)} ${formatMoney(extras.netValueLower, currency)} to ${formatMoney(extras.netValueUpper, currency)}`
+          ? `, likely between ${formatMoney(extras.netValueLower, currency)} and ${formatMoney(extras.netValueUpper, currency)} (${formatOdds(decision.level)})`
           : "") +
         `)` +
         (extras?.probabilityNetPositive !== undefined

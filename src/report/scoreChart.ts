@@ -13,12 +13,13 @@ import {
   type ChartOptions,
   type Layer,
   type Panel,
-} from "./chartCommon.js";
+} from "./chartOptions.js";
 import {
   describeMetric,
   formatCount,
   formatExactScore,
   capitalise,
+  formatOdds,
   likelyRange,
   formatProbability,
   formatScore,
@@ -209,7 +210,7 @@ export function scoreChart(
         ...(hasSingle
           ? [
               `Thin grey bars: where one model, scored on ${formatCount(singleModel!.testSize)} test samples, ` +
-                `lands with ${levelText} probability.`,
+                `lands ${formatOdds(decision.level)} times.`,
             ]
           : []),
       ],
@@ -235,7 +236,7 @@ function describeScores(decision: DecisionFile, info: MetricInfo, singleModel?: 
   const parts = [
     `Expected ${info.inSentence} goes from ${formatScore(first.expected, style)} now to ` +
       `${formatScore(last.expected, style)} after ${last.runs} further runs ` +
-      `(${likelyRange(decision.level)}: ${formatScore(last.lower, style)} to ${formatScore(last.upper, style)}).`,
+      `(likely between ${formatScore(last.lower, style)} and ${formatScore(last.upper, style)}, ${formatOdds(decision.level)}).`,
   ];
   const lastSingle = singleModel?.bounds.find((b) => b.trainingSize === last.trainingSize);
   if (singleModel && lastSingle) {

@@ -13,7 +13,7 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Layer,
-} from "./chartCommon.js";
+} from "./chartOptions.js";
 import { formatMoney } from "../format.js";
 import { chartConfig, palette } from "./theme.js";
 

@@ -156,6 +156,9 @@ export function targetSentence(facts: DecisionFacts): string | null {
   if (row === undefined) {
     return `Within ${plural(plan.maxRuns, "further run")} the target is not reached with ${confidence} probability.`;
   }
+  if (row.runs === 0) {
+    return `Today's data already reach the target with at least ${confidence} probability (${percent(row.probabilityOfTarget as number)}).`;
+  }
   const over = row.affordable
     ? ""
     : `, more than ${limitsBroken(row)} allow${limitsBroken(row).includes(" and ") ? "" : "s"}`;

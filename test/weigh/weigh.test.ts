@@ -425,16 +425,16 @@ describe("the decision as CSV (RFC 4180, via the report's decisionTableCsv)", ()
     const lines = decisionTableCsv(weighRuns(forecast(projections), plan)).split("\r\n");
     const header = lines[0].split(",");
     for (const column of [
-      "marginalGain",
-      "netValueLower",
-      "netValueUpper",
-      "probabilityNetPositive",
-      "withinDeadline",
+      "Gain from this run",
+      "Net value likely from (8 in 10)",
+      "Net value likely to (8 in 10)",
+      "Chance value exceeds cost",
+      "Within deadline",
     ]) {
       expect(header).toContain(column);
     }
     // Three runs: P(net value > 0) = 3/4 (first test above).
-    expect(lines[4].split(",")[header.indexOf("probabilityNetPositive")]).toBe("0.75");
-    expect(lines[4].split(",")[header.indexOf("runs")]).toBe("3");
+    expect(lines[4].split(",")[header.indexOf("Chance value exceeds cost")]).toBe("0.75");
+    expect(lines[4].split(",")[header.indexOf("Further runs")]).toBe("3");
   });
 });

@@ -3,6 +3,7 @@
  * and the one-sentence headline a lead reads first. The decision's own reasons come from
  * src/weigh/decisionWords.ts; these sentences say what the numbers mean for the page.
  */
+import { beyondLimitsTag } from "../weigh/decisionWords.js";
 import type { ForecastFile, Projection } from "../forecast/forecastFile.js";
 import type { DecisionFile, DecisionRow } from "../weigh/decisionFile.js";
 import {
@@ -207,7 +208,7 @@ function targetSentence(
     return `The target of ${targetText} is already reached with ${confidence} confidence.`;
   }
   const row = rows.find((r) => r.runs === decision.runsToTarget);
-  const cost = row ? ` (${costAndTime(row, currency)}${row.affordable ? "" : ", over budget"})` : "";
+  const cost = row ? ` (${costAndTime(row, currency)}${row.affordable ? "" : `, ${beyondLimitsTag(row)}`})` : "";
   const runs = `${countInWords(decision.runsToTarget)} ${decision.runsToTarget === 1 ? "run" : "runs"}`;
   return `Reaching the target of ${targetText} with ${confidence} confidence takes ${runs}${cost}.`;
 }

@@ -23,6 +23,7 @@ import {
   type ScoreStyle,
 } from "../format.js";
 import {
+  beyondLimitsTag,
   factsOfDecision,
   informationSentence,
   peopleCaution,
@@ -196,7 +197,7 @@ export function decisionSection(input: ReportInput, info: MetricInfo): string {
     const recommended = row.runs === decision.recommendedRuns;
     const tags = [
       recommended ? `<span class="tag recommended-tag">recommended</span>` : "",
-      row.affordable ? "" : `<span class="tag over-tag">over budget</span>`,
+      row.affordable ? "" : `<span class="tag over-tag">${beyondLimitsTag(row)}</span>`,
     ].join("");
     const previous = index > 0 ? rows[index - 1] : undefined;
     const gain =

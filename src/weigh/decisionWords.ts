@@ -53,7 +53,7 @@ export function limitsInWords(plan: Pick<Plan, "budget" | "deadlineMonths">): st
 }
 
 /** The limits a row breaks, in words ("the budget", "the deadline", "the budget and the deadline"). */
-function limitsBroken(row: DecisionRow): string {
+export function limitsBroken(row: DecisionRow): string {
   const overBudget = row.withinBudget === false;
   const pastDeadline = row.withinDeadline === false;
   if (overBudget && pastDeadline) return "the budget and the deadline";
@@ -61,6 +61,16 @@ function limitsBroken(row: DecisionRow): string {
   if (pastDeadline) return "the deadline";
   // Files of the first version say only `affordable`.
   return "the budget or the deadline";
+}
+
+/** A short tag for a row beyond the plan's limits: "over budget", "past deadline", "over budget and deadline". */
+export function beyondLimitsTag(row: DecisionRow): string {
+  const overBudget = row.withinBudget === false;
+  const pastDeadline = row.withinDeadline === false;
+  if (overBudget && pastDeadline) return "over budget and deadline";
+  if (pastDeadline) return "past deadline";
+  if (overBudget) return "over budget";
+  return "over budget or deadline";
 }
 
 /** A probability as a whole percentage, as the plan states a confidence: "80%". */

@@ -5,7 +5,7 @@
  * 1. `learningCurveChart`: the measured curve, the fitted curve with its band, the sizes further runs
  *    reach, the target;
  * 2. `scoreChart`: expected score and chance of the target against further runs (needs a decision);
- * 3. `netValueChart`: expected net value against further runs, with what-if controls (needs a
+ * 3. `netValueChart`: expected net value against further runs, with cost and value sliders (needs a
  *    decision);
  * 4. `backtestChart`: how well earlier points predicted later ones (needs the forecast's backtest);
  * 5. `sensitivityChart`: the tornado of the decision's sensitivity analysis (needs it).

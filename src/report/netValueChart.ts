@@ -1,5 +1,5 @@
 /**
- * The net-value chart with its what-if controls: the expected net value of each number of further
+ * The net-value chart with its cost and value sliders: the expected net value of each number of further
  * runs, recomputed in the page from the cost per run and the value per point the reader sets, and the
  * recommendation that follows from them.
  */
@@ -19,7 +19,7 @@ import { capitalise, describeMetric, formatMoney, formatOdds, formatProbability,
 import { planFacts } from "./planFacts.js";
 import { chartConfig, palette } from "./theme.js";
 
-/** The names of the chart's two what-if parameters, as the page's controls carry them. */
+/** The names of the chart's two slider parameters, as the page's controls carry them. */
 export const whatIfParameters = { costPerRun: "costPerRun", valuePerPoint: "valuePerPoint" } as const;
 
 /** The name of the text mark that states the recommendation (Vega names its marks `<name>_marks`). */
@@ -63,7 +63,7 @@ function currencySuffix(currency: string | undefined): string {
  * when decision.json carries it, the recommended number of runs outlined and stated in words above
  * the plot.
  *
- * What-if controls: two Vega-Lite parameters bound to range inputs, `costPerRun` and
+ * Cost and value sliders: two Vega-Lite parameters bound to range inputs, `costPerRun` and
  * `valuePerPoint`, start at the plan's values. The chart does not carry net values; it carries, per
  * row, the score gain in points (from the row's own net value: (expectedNetValue + cost) ÷
  * valuePerPoint, or the expected score's gain over today when the value per point is 0), the cost

@@ -373,7 +373,7 @@ describe("scoreChart", () => {
   });
 });
 
-describe("netValueChart and its what-if controls", () => {
+describe("netValueChart and its cost and value sliders", () => {
   const spec = netValueChart(sampleDecision, { currency: "EUR", metricRange: [0, 1] });
 
   /** The recommendation the chart states after setting `signals`, drawn by vega in Node. */

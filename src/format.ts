@@ -89,6 +89,17 @@ export function likelyRange(level: number): string {
   return `likely range (${formatOdds(level)})`;
 }
 
+/**
+ * The chance of reaching a target beside the chance the plan asks for: as `formatProbability`, but a
+ * chance just short of the one asked is not rounded up to it (0.795 against 0.8 → "79.5%", not
+ * "80%"), so that the page never shows the asked chance for a row that falls short of it.
+ */
+export function formatChance(probability: number, asked: number | undefined): string {
+  const text = formatProbability(probability);
+  if (asked === undefined || probability >= asked || text !== formatProbability(asked)) return text;
+  return `${formatNumber(Math.floor(probability * 1000) / 10, 1)}%`;
+}
+
 /** An interval level as a percentage: 0.8 → "80%", 0.95 → "95%", 0.995 → "99.5%". */
 export function formatLevel(level: number): string {
   const percent = level * 100;

@@ -20,11 +20,11 @@ import { backtestChart, familyLabel, type BacktestInput } from "./backtestChart.
 import type { ChartOptions } from "./chartOptions.js";
 import {
   describeMetric,
+  formatChance,
   formatCount,
   capitalise,
   likelyRange,
   formatMoney,
-  formatProbability,
   formatScore,
   scoreStyle,
   type MetricInfo,
@@ -203,7 +203,13 @@ function scoreTable(decision: DecisionFile, info: MetricInfo): ChartTable {
       formatCount(row.trainingSize),
       score(row.expected),
       `${score(row.lower)} to ${score(row.upper)}`,
-      ...(hasTarget ? [row.probabilityOfTarget === null ? "–" : formatProbability(row.probabilityOfTarget)] : []),
+      ...(hasTarget
+        ? [
+            row.probabilityOfTarget === null
+              ? "–"
+              : formatChance(row.probabilityOfTarget, decision.plan.targetConfidence),
+          ]
+        : []),
     ]),
   };
 }

@@ -8,6 +8,7 @@ import type { ForecastFile, Projection } from "../forecast/forecastFile.js";
 import type { DecisionFile, DecisionRow } from "../weigh/decisionFile.js";
 import {
   capitalise,
+  formatChance,
   countInWords,
   describeMetric,
   formatCount,
@@ -139,8 +140,8 @@ export function headline(input: ReportInput): string {
         sentence += `; a ${ordinalInWords(next.runs)} would add ${gainInWords(improvement(info, chosen, next), info)}`;
       sentences.push(sentence + ".");
       if (target !== undefined && now.probabilityOfTarget !== null && chosen.probabilityOfTarget !== null) {
-        const before = formatProbability(now.probabilityOfTarget);
-        const after = formatProbability(chosen.probabilityOfTarget);
+        const before = formatChance(now.probabilityOfTarget, decision.plan.targetConfidence);
+        const after = formatChance(chosen.probabilityOfTarget, decision.plan.targetConfidence);
         if (before !== after) {
           sentences.push(
             `The chance of reaching the target of ${formatExactScore(target, info)} goes from ${before} to ${after}.`,

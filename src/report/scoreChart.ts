@@ -16,6 +16,7 @@ import {
 } from "./chartOptions.js";
 import {
   describeMetric,
+  formatChance,
   formatCount,
   formatExactScore,
   capitalise,
@@ -248,7 +249,8 @@ function describeScores(decision: DecisionFile, info: MetricInfo, singleModel?: 
   if (decision.plan.target !== undefined && last.probabilityOfTarget !== null) {
     parts.push(
       `The chance of reaching the target of ${formatExactScore(decision.plan.target, info)} is ` +
-        `${formatProbability(first.probabilityOfTarget ?? 0)} now and ${formatProbability(last.probabilityOfTarget)} ` +
+        `${formatChance(first.probabilityOfTarget ?? 0, decision.plan.targetConfidence)} now and ` +
+        `${formatChance(last.probabilityOfTarget, decision.plan.targetConfidence)} ` +
         `after ${last.runs} runs; the plan asks for ${formatProbability(decision.plan.targetConfidence)}.`,
     );
   }

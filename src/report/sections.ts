@@ -9,6 +9,7 @@ import type { DecisionFile } from "../weigh/decisionFile.js";
 import { type ChartTable, type ReportChart } from "./charts.js";
 import {
   countInWords,
+  formatChance,
   formatCount,
   formatExactScore,
   formatOdds,
@@ -208,7 +209,9 @@ export function decisionSection(input: ReportInput, info: MetricInfo): string {
       `<td>${withRange(score(row.expected), score(row.lower), score(row.upper))}</td>`,
       `<td>${row.runs === 0 || gain === undefined ? "–" : signedGain(gain, info, style)}</td>`,
       ...(hasTarget
-        ? [`<td>${row.probabilityOfTarget === null ? "–" : formatProbability(row.probabilityOfTarget)}</td>`]
+        ? [
+            `<td>${row.probabilityOfTarget === null ? "–" : formatChance(row.probabilityOfTarget, decision.plan.targetConfidence)}</td>`,
+          ]
         : []),
       `<td>${formatMoney(row.cost)}</td>`,
       `<td>${formatNumber(row.months, Number.isInteger(row.months) ? 0 : 1)}</td>`,

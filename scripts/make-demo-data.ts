@@ -27,8 +27,8 @@ import { RandomStream } from "../src/random.js";
 
 /** The seed of the demo data; change it and the README together. */
 const SEED = 20261130;
-/** Samples per cruise (C1..C4), 180 in all. */
-const SAMPLES_PER_CRUISE = [46, 44, 45, 45];
+/** Samples per pilot cruise (C1..C4), 120 in all: the pilot cruises sampled about 30 stations each. */
+const SAMPLES_PER_CRUISE = [31, 29, 30, 30];
 /** Standard deviation of the latent log-odds: how sharply the readings as a whole separate the classes. */
 const LOG_ODDS_SPREAD = 12;
 /** Log-odds of bloom-risk when every latent score is 0; with the spread above, about 31% bloom-risk. */

@@ -111,7 +111,7 @@ export const message = {
   curveTooShort: (sizes: number) =>
     `the curve has ${sizes} distinct training size${sizes === 1 ? "" : "s"}; a forecast needs at least 3`,
   missingProjections: (file: string, missing: number[], needed: number[]) =>
-    `${file}: the forecast has no projection at training size${missing.length === 1 ? "" : "s"} ${missing.join(", ")}; rerun headroom forecast with --at ${needed.join(",")}`,
+    `${file}: the forecast has no projection at training size${missing.length === 1 ? "" : "s"} ${missing.join(", ")} and, written by an earlier version, keeps no curves to compute them; rerun headroom forecast on the same curve (or add --at ${needed.join(",")})`,
   outputExists: (file: string) => `${file}: refusing to overwrite an input file`,
   cannotWrite: (file: string, reason: string) => `${file}: cannot be written (${reason})`,
   planYieldMissing: () =>

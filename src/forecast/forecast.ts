@@ -10,6 +10,7 @@ import { curveFamilies, findCurveFamily, type CurveFamily } from "../fit/familie
 import { message } from "../messages.js";
 import { assessFamilies, type AssessedFamily } from "./backtest.js";
 import { drawCurves, drawnValue, measuredRange } from "./drawCurves.js";
+import { expectedValue, storeCurve, storeFit, type WeightedFit } from "./storedCurves.js";
 import type { BandPoint, ForecastFile, Projection } from "./forecastFile.js";
 import { forecastWarnings } from "./forecastWarnings.js";
 import { measuredCurve } from "./measuredCurve.js";
@@ -193,8 +194,12 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   // 2. Fit and weigh the families.
   const assessment = assessFamilies(measured, resolved.family, resolved.seed);
   const families = assessment.families;
-  const expectedOriented = (size: number): number =>
-    clampOriented(families.reduce((sum, f) => sum + f.weight * f.family.model(size, f.fit.parameters), 0));
+  const fits: WeightedFit[] = families.map((f) => ({
+    family: f.family,
+    weight: f.weight,
+    parameters: f.fit.parameters,
+  }));
+  const expectedOriented = (size: number): number => expectedValue(fits, size, range);
 
   // 3. The shift for which samples were collected.
   const shift = sampleShift(curve, measured);
@@ -290,6 +295,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
     extrapolationRatio: resolved.at[resolved.at.length - 1] / largestMeasured,
     sampleStandardDeviation: shift.standardDeviation,
     testSize: resolved.testSize,
+    curves: { drawn: drawn.curves.map(storeCurve), fits: fits.map(storeFit) },
   };
   if (assessment.backtested) {
     forecast.backtest = {

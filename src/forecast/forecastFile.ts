@@ -76,6 +76,23 @@ export interface BandPoint {
   upper: number;
 }
 
+/** One drawn curve as stored (see storedCurves.ts): parameters, shift and extrapolation in oriented units. */
+export interface StoredCurve {
+  family: string;
+  parameters: number[];
+  /** The shift shared by every size, for which samples were collected. */
+  shift: number;
+  /** The extrapolation error at ln(n / largest measured size) = 1. */
+  extrapolation: number;
+}
+
+/** One family's point fit and its weight, in oriented units. */
+export interface StoredFit {
+  family: string;
+  weight: number;
+  parameters: number[];
+}
+
 export interface ForecastFile {
   kind: "headroom-forecast";
   version: 1;
@@ -115,4 +132,10 @@ export interface ForecastFile {
   testSize?: number;
   /** Answers to `--target`, when one was given. */
   targetSize?: TargetSizeAnswer;
+  /**
+   * What the projections were computed from, so that `weigh` can read the forecast at any training
+   * size: the drawn curves (draw j of every projection is `drawn[j]`) and the families' point fits.
+   * Oriented units: the score times −1 when lower is better. Absent in files of earlier versions.
+   */
+  curves?: { drawn: StoredCurve[]; fits: StoredFit[] };
 }

@@ -5,6 +5,7 @@
  * failed. A difference counts as real when it exceeds twice its standard error (from the variance
  * of each size's mean that resampling repeats sees).
  */
+import { formatSignificant } from "../format.js";
 import type { CurveFile } from "../curve/curveFile.js";
 import { orientedRange } from "../fit/families.js";
 import type { FamilyAssessment } from "./backtest.js";
@@ -50,11 +51,11 @@ export function forecastWarnings(input: WarningInput): string[] {
   const rise = oriented[count - 1].value - oriented[0].value;
   if (rise < -noise(0, count - 1)) {
     warnings.push(
-      `The mean score does not improve: it gets worse from the smallest training size (${first.trainingSize}: ${formatScore(first.mean)}) to the largest (${last.trainingSize}: ${formatScore(last.mean)}); more data has not helped so far, and the forecast cannot promise a gain.`,
+      `The mean score does not improve: it gets worse from the smallest training size (${first.trainingSize}: ${formatSignificant(first.mean)}) to the largest (${last.trainingSize}: ${formatSignificant(last.mean)}); more data has not helped so far, and the forecast cannot promise a gain.`,
     );
   } else if (!(rise > noise(0, count - 1))) {
     warnings.push(
-      `The mean score does not improve from the smallest training size (${first.trainingSize}: ${formatScore(first.mean)}) to the largest (${last.trainingSize}: ${formatScore(last.mean)}) by more than its noise; the curve may be flat or the scores too noisy to extrapolate.`,
+      `The mean score does not improve from the smallest training size (${first.trainingSize}: ${formatSignificant(first.mean)}) to the largest (${last.trainingSize}: ${formatSignificant(last.mean)}) by more than its noise; the curve may be flat or the scores too noisy to extrapolate.`,
     );
   } else {
     let worst = -1;
@@ -70,7 +71,7 @@ export function forecastWarnings(input: WarningInput): string[] {
       const a = summaries[worst];
       const b = summaries[worst + 1];
       warnings.push(
-        `The curve is not monotone: the mean score gets worse from training size ${a.trainingSize} (${formatScore(a.mean)}) to ${b.trainingSize} (${formatScore(b.mean)}), by more than its noise; the fitted families all assume more data helps.`,
+        `The curve is not monotone: the mean score gets worse from training size ${a.trainingSize} (${formatSignificant(a.mean)}) to ${b.trainingSize} (${formatSignificant(b.mean)}), by more than its noise; the fitted families all assume more data helps.`,
       );
     }
   }
@@ -79,7 +80,7 @@ export function forecastWarnings(input: WarningInput): string[] {
     const gap = range[1] - oriented[count - 1].value;
     if (gap <= Math.max(2 * Math.sqrt(meanVariances[count - 1]), ceilingFraction * (range[1] - range[0]))) {
       warnings.push(
-        `The mean score at the largest training size (${last.trainingSize}: ${formatScore(last.mean)}) is already at the metric's best possible value (${formatScore(measured.sign * range[1] + 0)}) within its noise; more data has little or no room to help.`,
+        `The mean score at the largest training size (${last.trainingSize}: ${formatSignificant(last.mean)}) is already at the metric's best possible value (${formatSignificant(measured.sign * range[1] + 0)}) within its noise; more data has little or no room to help.`,
       );
     }
   }
@@ -136,8 +137,4 @@ export function forecastWarnings(input: WarningInput): string[] {
     warnings.push(`${drawn.dropped} of ${drawn.requested} bootstrap refits failed and were left out of the interval.`);
   }
   return warnings;
-}
-
-function formatScore(score: number): string {
-  return Number(score.toPrecision(4)).toString();
 }

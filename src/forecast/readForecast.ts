@@ -28,6 +28,14 @@ const forecastSchema = z.object({
   band: z.array(z.object({ trainingSize: finite, expected: finite, lower: finite, upper: finite })),
   measured: z.array(z.object({ trainingSize: finite, mean: finite, standardDeviation: finite, fits: z.number() })),
   warnings: z.array(z.string()),
+  curves: z
+    .object({
+      drawn: z.array(
+        z.object({ family: z.string(), parameters: z.array(finite), shift: finite, extrapolation: finite }),
+      ),
+      fits: z.array(z.object({ family: z.string(), weight: finite, parameters: z.array(finite) })),
+    })
+    .optional(),
 });
 
 export function readForecast(file: string): ForecastFile {

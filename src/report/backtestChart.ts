@@ -12,8 +12,8 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Panel,
-} from "./chartCommon.js";
-import { describeMetric, formatCount, formatNumber, formatScore, scoreStyle, type MetricInfo } from "./format.js";
+} from "./chartOptions.js";
+import { describeMetric, formatCount, formatNumber, formatScore, scoreStyle, type MetricInfo } from "../format.js";
 import { chartConfig, okabeIto, palette } from "./theme.js";
 
 /** What the backtest chart shows: the predictions and, when known, each family's weight. */
@@ -43,9 +43,29 @@ const familyColors = [
   palette.ink,
 ];
 
+/**
+ * The learning-curve families in words, beside the codes forecast.json uses (src/fit/families.ts has
+ * each formula).
+ */
+const familyWords: Record<string, string> = {
+  pow3: "power law",
+  pow4: "power law, shifted",
+  mmf4: "Morgan–Mercer–Flodin",
+  wbl4: "Weibull",
+  exp3: "exponential",
+  ilog2: "logarithmic",
+  last: "no further gain",
+};
+
+/** A family's code with its name in words: "pow3 (power law)"; an unknown code as it is. */
+export function familyLabel(code: string): string {
+  const words = familyWords[code];
+  return words === undefined ? code : `${code} (${words})`;
+}
+
 /** The error each family's bar shows, and its name in words. */
 interface FamilyErrors {
-  kind: "Root mean square error" | "Mean absolute error";
+  kind: "Typical miss" | "Average miss";
   errors: Array<{ family: string; error: number }>;
 }
 
@@ -55,11 +75,11 @@ function familyErrors(input: BacktestInput): FamilyErrors {
   const computed = backtestErrors(input.predictions);
   if (rmse && computed.every((e) => Number.isFinite(rmse[e.family]))) {
     return {
-      kind: "Root mean square error",
+      kind: "Typical miss",
       errors: computed.map((e) => ({ family: e.family, error: rmse[e.family] })),
     };
   }
-  return { kind: "Mean absolute error", errors: computed };
+  return { kind: "Average miss", errors: computed };
 }
 
 /** Mean absolute error of each family's predictions, in the metric's units, in input order. */
@@ -90,12 +110,12 @@ export function backtestErrors(
 export function backtestChart(input: BacktestInput, options: ChartOptions = {}): TopLevelSpec {
   const resolved = resolveChartOptions(options);
   const info = describeMetric(input.metric, input.higherIsBetter, input.metricRange ?? resolved.metricRange);
-  const families = [...new Set(input.predictions.map((p) => p.family))];
+  const families = [...new Set(input.predictions.map((p) => familyLabel(p.family)))];
   const color = {
     field: "family",
     type: "nominal" as const,
     scale: { domain: families, range: familyColors.slice(0, Math.max(1, families.length)) },
-    legend: { title: "Family" },
+    legend: { title: "Family", labelLimit: 280 },
   };
   const measuredBySize = new Map(input.predictions.map((p) => [p.trainingSize, p.measured]));
   const measured = [...measuredBySize]
@@ -103,6 +123,7 @@ export function backtestChart(input: BacktestInput, options: ChartOptions = {}):
     .map(([trainingSize, mean]) => ({ trainingSize, mean }));
   const predictions = input.predictions.map((p) => ({
     ...p,
+    family: familyLabel(p.family),
     series: `${p.family} up to ${p.fittedUpTo}`,
     error: p.predicted - p.measured,
   }));
@@ -127,12 +148,12 @@ export function backtestChart(input: BacktestInput, options: ChartOptions = {}):
   const errors = errorKind.errors.map((e) => {
     const weight = input.familyWeights?.[e.family];
     return {
-      family: e.family,
+      family: familyLabel(e.family),
       error: info.isFraction ? 100 * e.error : e.error,
       label: weight === undefined ? "" : `weight ${formatNumber(100 * weight, 0)}%`,
     };
   });
-  const errorUnit = info.isFraction ? "percentage points" : `${info.inSentence} units`;
+  const errorUnit = info.isFraction ? "points" : `${info.inSentence} units`;
 
   const predictionPanel: Panel = {
     title: { text: "Predicted from the smaller sizes, against what was measured", fontSize: 13 },
@@ -180,7 +201,7 @@ export function backtestChart(input: BacktestInput, options: ChartOptions = {}):
     ],
   };
   const errorPanel: Panel = {
-    title: { text: `${errorKind.kind} of the predictions (${errorUnit})`, fontSize: 13 },
+    title: { text: `${errorKind.kind} of each family's predictions (${errorUnit})`, fontSize: 13 },
     width: resolved.width,
     height: { step: 26 },
     data: { values: errors },
@@ -233,15 +254,15 @@ function describeBacktest(input: BacktestInput, info: MetricInfo): string {
   const { kind, errors } = familyErrors(input);
   if (errors.length === 0) return "No backtest was made.";
   const sizes = [...new Set(input.predictions.map((p) => p.trainingSize))].sort((a, b) => a - b);
-  const unit = info.isFraction ? " percentage points" : "";
+  const unit = info.isFraction ? " points" : "";
   const errorText = (e: { error: number }) =>
     info.isFraction ? formatNumber(100 * e.error, 1) : formatScore(e.error, scoreStyle(info, [e.error]));
   const best = errors.reduce((a, b) => (b.error < a.error ? b : a));
   return (
     `Backtest of ${errors.length} learning-curve ${errors.length === 1 ? "family" : "families"}: each was fitted to the ` +
     `smaller measured sizes and predicted the held-back sizes from ${formatCount(sizes[0])} to ` +
-    `${formatCount(sizes[sizes.length - 1])} samples. ${kind}s: ` +
-    errors.map((e) => `${e.family} ${errorText(e)}${unit}`).join(", ") +
-    `. The smallest is ${best.family}'s.`
+    `${formatCount(sizes[sizes.length - 1])} samples. ${kind} of each: ` +
+    errors.map((e) => `${familyLabel(e.family)} ${errorText(e)}${unit}`).join(", ") +
+    `. The smallest is that of ${familyLabel(best.family)}.`
   );
 }

@@ -3,7 +3,7 @@
  * that SVG by resvg.
  *
  * SVG: vega-lite compiles the spec, vega draws it with its headless SVG renderer (`renderer: "none"`
- * and `toSVG()`, no canvas and no browser needed). What-if controls do not exist in a file: the
+ * and `toSVG()`, no canvas and no browser needed). Cost and value sliders do not exist in a file: the
  * chart is drawn at the plan's values.
  *
  * PNG: resvg draws no text at all unless it is given fonts. It gets the DejaVu Sans files when they

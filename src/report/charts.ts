@@ -5,7 +5,7 @@
  * 1. `learningCurveChart`: the measured curve, the fitted curve with its band, the sizes further runs
  *    reach, the target;
  * 2. `scoreChart`: expected score and chance of the target against further runs (needs a decision);
- * 3. `netValueChart`: expected net value against further runs, with what-if controls (needs a
+ * 3. `netValueChart`: expected net value against further runs, with cost and value sliders (needs a
  *    decision);
  * 4. `backtestChart`: how well earlier points predicted later ones (needs the forecast's backtest);
  * 5. `sensitivityChart`: the tornado of the decision's sensitivity analysis (needs it).
@@ -16,18 +16,19 @@
 import type { TopLevelSpec } from "vega-lite";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import type { DecisionFile, DecisionRow } from "../weigh/decisionFile.js";
-import { backtestChart, type BacktestInput } from "./backtestChart.js";
-import type { ChartOptions } from "./chartCommon.js";
+import { backtestChart, familyLabel, type BacktestInput } from "./backtestChart.js";
+import type { ChartOptions } from "./chartOptions.js";
 import {
   describeMetric,
+  formatChance,
   formatCount,
-  formatLevel,
+  capitalise,
+  likelyRange,
   formatMoney,
-  formatProbability,
   formatScore,
   scoreStyle,
   type MetricInfo,
-} from "./format.js";
+} from "../format.js";
 import { learningCurveChart } from "./learningCurveChart.js";
 import { netValueChart } from "./netValueChart.js";
 import type { ReportInput } from "./reportInput.js";
@@ -35,7 +36,7 @@ import { scoreChart, type SingleModelInterval } from "./scoreChart.js";
 import { factorInWords, sensitivityChart, type SensitivityFactor } from "./sensitivityChart.js";
 
 export { backtestChart, backtestErrors, type BacktestInput } from "./backtestChart.js";
-export { vegaLiteSchema, type ChartOptions } from "./chartCommon.js";
+export { vegaLiteSchema, type ChartOptions } from "./chartOptions.js";
 export { learningCurveChart } from "./learningCurveChart.js";
 export { netValueChart, sliderStep, whatIfParameters } from "./netValueChart.js";
 export { scoreChart, type SingleModelInterval } from "./scoreChart.js";
@@ -65,6 +66,13 @@ function titleText(spec: TopLevelSpec): string {
   const title = spec.title;
   const text = typeof title === "object" && title !== null && !Array.isArray(title) ? title.text : title;
   return Array.isArray(text) ? text.join(" ") : typeof text === "string" ? text : "";
+}
+
+/** The assumptions whose ±25% change moves the recommendation away from the decision's. */
+export function adviceChanges(factors: readonly SensitivityFactor[], decision: DecisionFile): SensitivityFactor[] {
+  return factors.filter((f) =>
+    [f.low, f.high].some((outcome) => outcome !== null && outcome.recommendedRuns !== decision.recommendedRuns),
+  );
 }
 
 /** decision.json's sensitivity analysis, when the file carries one. */
@@ -123,7 +131,8 @@ export function reportCharts(input: ReportInput): ReportChart[] {
   const backtest = backtestOf(forecast);
   if (backtest) add("chart-backtest", backtestChart(backtest, options), backtestTable(backtest, info));
   const sensitivity = decision ? sensitivityOf(decision) : undefined;
-  if (decision && sensitivity) {
+  // A chart of bars that all say "no change" shows nothing: the page says so in a sentence instead.
+  if (decision && sensitivity && adviceChanges(sensitivity, decision).length > 0) {
     add(
       "chart-sensitivity",
       sensitivityChart(sensitivity, decision, options),
@@ -146,7 +155,7 @@ function learningCurveTable(forecast: ForecastFile, info: MetricInfo): ChartTabl
     ...forecast.projections.map((p) => p.expected),
   ]);
   const score = (value: number) => formatScore(value, style);
-  const level = formatLevel(forecast.level);
+  const level = likelyRange(forecast.level);
   return {
     caption: `The learning curve's numbers: mean ${info.inSentence} measured at each training size, and the projection.`,
     columns: ["Training samples", "Kind", info.title, "Range"],
@@ -157,7 +166,7 @@ function learningCurveTable(forecast: ForecastFile, info: MetricInfo): ChartTabl
           formatCount(m.trainingSize),
           `measured, mean of ${m.fits} fits`,
           score(m.mean),
-          `± 1 sd: ${score(m.mean - m.standardDeviation)} to ${score(m.mean + m.standardDeviation)}`,
+          `typical spread: ${score(m.mean - m.standardDeviation)} to ${score(m.mean + m.standardDeviation)}`,
         ]),
       ...[...forecast.projections]
         .filter((p) => p.trainingSize > forecast.largestMeasuredSize)
@@ -166,7 +175,7 @@ function learningCurveTable(forecast: ForecastFile, info: MetricInfo): ChartTabl
           formatCount(p.trainingSize),
           "projected",
           score(p.expected),
-          `${level} interval: ${score(p.lower)} to ${score(p.upper)}`,
+          `${level}: ${score(p.lower)} to ${score(p.upper)}`,
         ]),
     ],
   };
@@ -186,7 +195,7 @@ function scoreTable(decision: DecisionFile, info: MetricInfo): ChartTable {
       "Further runs",
       "Training samples",
       `Expected ${info.inSentence}`,
-      `${formatLevel(decision.level)} interval`,
+      capitalise(likelyRange(decision.level)),
       ...(hasTarget ? ["Chance of reaching target"] : []),
     ],
     rows: rows.map((row) => [
@@ -194,7 +203,13 @@ function scoreTable(decision: DecisionFile, info: MetricInfo): ChartTable {
       formatCount(row.trainingSize),
       score(row.expected),
       `${score(row.lower)} to ${score(row.upper)}`,
-      ...(hasTarget ? [row.probabilityOfTarget === null ? "–" : formatProbability(row.probabilityOfTarget)] : []),
+      ...(hasTarget
+        ? [
+            row.probabilityOfTarget === null
+              ? "–"
+              : formatChance(row.probabilityOfTarget, decision.plan.targetConfidence),
+          ]
+        : []),
     ]),
   };
 }
@@ -208,7 +223,7 @@ function netValueTable(decision: DecisionFile, currency: string | undefined): Ch
       "Further runs",
       "Cost",
       "Expected net value",
-      ...(hasInterval ? [`${formatLevel(decision.level)} interval`] : []),
+      ...(hasInterval ? [capitalise(likelyRange(decision.level))] : []),
       "Within budget and deadline",
     ],
     rows: rows.map((row) => [
@@ -230,7 +245,7 @@ function backtestTable(backtest: BacktestInput, info: MetricInfo): ChartTable {
     caption: "Backtest: each family fitted to the smaller sizes, predicting the larger ones.",
     columns: ["Family", "Fitted up to", "Training samples", "Predicted", "Measured"],
     rows: backtest.predictions.map((p) => [
-      p.family,
+      familyLabel(p.family),
       formatCount(p.fittedUpTo),
       formatCount(p.trainingSize),
       score(p.predicted),

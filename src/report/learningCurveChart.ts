@@ -15,16 +15,18 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Layer,
-} from "./chartCommon.js";
+} from "./chartOptions.js";
 import {
   describeMetric,
   formatCount,
   formatExactScore,
-  formatLevel,
+  capitalise,
+  formatOdds,
+  likelyRange,
   formatScore,
   scoreStyle,
   type MetricInfo,
-} from "./format.js";
+} from "../format.js";
 import { chartConfig, palette } from "./theme.js";
 
 /**
@@ -63,15 +65,15 @@ export function learningCurveChart(
 ): TopLevelSpec {
   const resolved = resolveChartOptions(options);
   const info = describeMetric(forecast.metric, forecast.higherIsBetter, forecast.metricRange ?? curve.metricRange);
-  const levelText = formatLevel(forecast.level);
+  const levelText = likelyRange(forecast.level);
   const target = decision?.plan.target;
 
   // The series of the legend, each named in the `series` field of its layer's data.
   const series = {
-    fits: "Each fit",
-    measured: "Mean ± 1 sd",
+    fits: "One trial model",
+    measured: "Average, with typical spread",
     curve: "Fitted curve",
-    band: `${levelText} projection band`,
+    band: capitalise(levelText),
   };
 
   // Data, one array per layer.
@@ -150,7 +152,7 @@ export function learningCurveChart(
     encoding: {
       x: { field: "trainingSize", type: "quantitative" },
       tooltip: [
-        { field: "label", type: "nominal", title: "Mark" },
+        { field: "label", type: "nominal", title: "Size marked" },
         { field: "trainingSize", type: "quantitative", title: "Training samples", format: ",.0f" },
       ],
     },
@@ -254,7 +256,7 @@ export function learningCurveChart(
       text: `Learning curve: ${info.inSentence} against training samples`,
       subtitle: [
         `Measured by cross-validation up to ${formatCount(forecast.largestMeasuredSize)} samples; ` +
-          `dashed: projection with its ${levelText} band.`,
+          `dashed: projection with its ${levelText}.`,
       ],
     },
     description: describeLearningCurve(info, forecast, decision),
@@ -289,7 +291,7 @@ function describeLearningCurve(info: MetricInfo, forecast: ForecastFile, decisio
   if (end) {
     parts.push(
       `The fitted curve projects ${score(end.expected)} at ${formatCount(end.trainingSize)} samples ` +
-        `(${formatLevel(forecast.level)} band ${score(end.lower)} to ${score(end.upper)}).`,
+        `(likely between ${score(end.lower)} and ${score(end.upper)}, ${formatOdds(forecast.level)}).`,
     );
   }
   if (decision) {
@@ -303,6 +305,14 @@ function describeLearningCurve(info: MetricInfo, forecast: ForecastFile, decisio
     }
     if (decision.plan.target !== undefined) {
       parts.push(`The target is ${formatExactScore(decision.plan.target, info)}.`);
+    }
+    const today = decision.table.find((row) => row.runs === 0)?.trainingSize;
+    const largest = measured[measured.length - 1]?.trainingSize;
+    if (today !== undefined && largest !== undefined && today > largest) {
+      parts.push(
+        `“Today” marks all ${formatCount(today)} samples in hand; the measured points stop at ` +
+          `${formatCount(largest)} because each trial model is trained on part of the data and tested on the rest.`,
+      );
     }
   }
   return parts.join(" ");

@@ -1,5 +1,5 @@
 /**
- * The net-value chart with its what-if controls: the expected net value of each number of further
+ * The net-value chart with its cost and value sliders: the expected net value of each number of further
  * runs, recomputed in the page from the cost per run and the value per point the reader sets, and the
  * recommendation that follows from them.
  */
@@ -14,12 +14,12 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Layer,
-} from "./chartCommon.js";
-import { describeMetric, formatLevel, formatMoney, formatProbability } from "./format.js";
+} from "./chartOptions.js";
+import { capitalise, describeMetric, formatMoney, formatOdds, formatProbability, likelyRange } from "../format.js";
 import { planFacts } from "./planFacts.js";
 import { chartConfig, palette } from "./theme.js";
 
-/** The names of the chart's two what-if parameters, as the page's controls carry them. */
+/** The names of the chart's two slider parameters, as the page's controls carry them. */
 export const whatIfParameters = { costPerRun: "costPerRun", valuePerPoint: "valuePerPoint" } as const;
 
 /** The name of the text mark that states the recommendation (Vega names its marks `<name>_marks`). */
@@ -63,7 +63,7 @@ function currencySuffix(currency: string | undefined): string {
  * when decision.json carries it, the recommended number of runs outlined and stated in words above
  * the plot.
  *
- * What-if controls: two Vega-Lite parameters bound to range inputs, `costPerRun` and
+ * Cost and value sliders: two Vega-Lite parameters bound to range inputs, `costPerRun` and
  * `valuePerPoint`, start at the plan's values. The chart does not carry net values; it carries, per
  * row, the score gain in points (from the row's own net value: (expectedNetValue + cost) ÷
  * valuePerPoint, or the expected score's gain over today when the value per point is 0), the cost
@@ -208,13 +208,13 @@ export function netValueChart(decision: DecisionFile, options: ChartOptions = {}
           {
             field: "netValueLower",
             type: "quantitative" as const,
-            title: `${formatLevel(decision.level)} interval from`,
+            title: `${capitalise(likelyRange(decision.level))}: from`,
             format: ",.0f",
           },
           {
             field: "netValueUpper",
             type: "quantitative" as const,
-            title: `${formatLevel(decision.level)} interval to`,
+            title: `${capitalise(likelyRange(decision.level))}: to`,
             format: ",.0f",
           },
         ]
@@ -290,7 +290,7 @@ export function netValueChart(decision: DecisionFile, options: ChartOptions = {}
       text: "Expected net value of further runs",
       subtitle: [
         `Value of the expected gain in ${info.inSentence} minus the cost of the runs` +
-          (hasInterval ? `; whiskers: ${formatLevel(decision.level)} interval.` : "."),
+          (hasInterval ? `; whiskers: ${likelyRange(decision.level)}.` : "."),
         "Outlined: recommended; faded: over budget or past the deadline.",
       ],
     },
@@ -343,7 +343,7 @@ function describeNetValue(decision: DecisionFile, currency: string | undefined, 
     recommended && recommended.runs > 0
       ? `The recommendation is ${recommended.runs} (${formatMoney(recommended.expectedNetValue, currency)}` +
         (extras?.netValueLower !== undefined && extras.netValueUpper !== undefined
-          ? `, ${formatLevel(decision.level)} interval ${formatMoney(extras.netValueLower, currency)} to ${formatMoney(extras.netValueUpper, currency)}`
+          ? `, likely between ${formatMoney(extras.netValueLower, currency)} and ${formatMoney(extras.netValueUpper, currency)} (${formatOdds(decision.level)})`
           : "") +
         `)` +
         (extras?.probabilityNetPositive !== undefined

@@ -13,7 +13,11 @@ export interface ReportInput {
   decision?: DecisionFile;
   /** Page title (default: "<Metric> learning curve"). */
   title?: string;
-  /** Field of use ("clinical", "public-health", "safety", ...); any value adds a caution about people's health and safety. */
+  /**
+   * Field of use ("clinical", "public-health", "safety", ...), before the decision's own `domain`. A
+   * field about people (health, care, safety, the public) adds the caution about people when the
+   * decision does not already carry it.
+   */
   domain?: string;
   /** Currency of costs and values ("EUR"). */
   currency?: string;

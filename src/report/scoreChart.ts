@@ -13,17 +13,20 @@ import {
   type ChartOptions,
   type Layer,
   type Panel,
-} from "./chartCommon.js";
+} from "./chartOptions.js";
 import {
   describeMetric,
+  formatChance,
   formatCount,
   formatExactScore,
-  formatLevel,
+  capitalise,
+  formatOdds,
+  likelyRange,
   formatProbability,
   formatScore,
   scoreStyle,
   type MetricInfo,
-} from "./format.js";
+} from "../format.js";
 import { chartConfig, palette } from "./theme.js";
 
 /**
@@ -56,7 +59,7 @@ export function scoreChart(
 ): TopLevelSpec {
   const resolved = resolveChartOptions(options);
   const info = describeMetric(decision.metric, decision.higherIsBetter, resolved.metricRange);
-  const levelText = formatLevel(decision.level);
+  const levelText = likelyRange(decision.level);
   const target = decision.plan.target;
 
   const singleBySize = new Map((singleModel?.bounds ?? []).map((b) => [b.trainingSize, b]));
@@ -98,8 +101,8 @@ export function scoreChart(
     { field: "runs", type: "quantitative" as const, title: "Further runs" },
     { field: "trainingSize", type: "quantitative" as const, title: "Training samples", format: ",.0f" },
     { field: "expected", type: "quantitative" as const, title: `Expected ${info.inSentence}`, format: tooltipFormat },
-    { field: "lower", type: "quantitative" as const, title: `${levelText} interval from`, format: tooltipFormat },
-    { field: "upper", type: "quantitative" as const, title: `${levelText} interval to`, format: tooltipFormat },
+    { field: "lower", type: "quantitative" as const, title: `${capitalise(levelText)}: from`, format: tooltipFormat },
+    { field: "upper", type: "quantitative" as const, title: `${capitalise(levelText)}: to`, format: tooltipFormat },
   ];
   const scoreY = (field: string) => ({
     field,
@@ -149,7 +152,7 @@ export function scoreChart(
   }
   const panels: Panel[] = [
     {
-      title: { text: `Expected ${info.inSentence} with its ${levelText} interval`, fontSize: 13 },
+      title: { text: `Expected ${info.inSentence} with its ${levelText}`, fontSize: 13 },
       width: resolved.width,
       height: resolved.panelHeight,
       data: { values: rows },
@@ -204,11 +207,11 @@ export function scoreChart(
     title: {
       text: `What further runs are expected to do to ${info.inSentence}`,
       subtitle: [
-        `Dots: expected ${info.inSentence}; blue bars: its ${levelText} interval.`,
+        `Dots: expected ${info.inSentence}; blue bars: its ${levelText}.`,
         ...(hasSingle
           ? [
               `Thin grey bars: where one model, scored on ${formatCount(singleModel!.testSize)} test samples, ` +
-                `lands with ${levelText} probability.`,
+                `lands ${formatOdds(decision.level)} times.`,
             ]
           : []),
       ],
@@ -234,7 +237,7 @@ function describeScores(decision: DecisionFile, info: MetricInfo, singleModel?: 
   const parts = [
     `Expected ${info.inSentence} goes from ${formatScore(first.expected, style)} now to ` +
       `${formatScore(last.expected, style)} after ${last.runs} further runs ` +
-      `(${formatLevel(decision.level)} interval ${formatScore(last.lower, style)} to ${formatScore(last.upper, style)}).`,
+      `(likely between ${formatScore(last.lower, style)} and ${formatScore(last.upper, style)}, ${formatOdds(decision.level)}).`,
   ];
   const lastSingle = singleModel?.bounds.find((b) => b.trainingSize === last.trainingSize);
   if (singleModel && lastSingle) {
@@ -246,7 +249,8 @@ function describeScores(decision: DecisionFile, info: MetricInfo, singleModel?: 
   if (decision.plan.target !== undefined && last.probabilityOfTarget !== null) {
     parts.push(
       `The chance of reaching the target of ${formatExactScore(decision.plan.target, info)} is ` +
-        `${formatProbability(first.probabilityOfTarget ?? 0)} now and ${formatProbability(last.probabilityOfTarget)} ` +
+        `${formatChance(first.probabilityOfTarget ?? 0, decision.plan.targetConfidence)} now and ` +
+        `${formatChance(last.probabilityOfTarget, decision.plan.targetConfidence)} ` +
         `after ${last.runs} runs; the plan asks for ${formatProbability(decision.plan.targetConfidence)}.`,
     );
   }

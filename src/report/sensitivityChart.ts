@@ -13,8 +13,8 @@ import {
   vegaLiteSchema,
   type ChartOptions,
   type Layer,
-} from "./chartCommon.js";
-import { formatMoney } from "./format.js";
+} from "./chartOptions.js";
+import { formatMoney } from "../format.js";
 import { chartConfig, palette } from "./theme.js";
 
 /** The recommendation and its expected net value when one factor is moved. */
@@ -44,7 +44,7 @@ const factorWords: Record<string, string> = {
   costPerRun: "Cost per run",
   samplesPerRun: "Samples per run",
   valuePerPoint: "Value per point",
-  asymptote: "Headroom to the curve's ceiling",
+  asymptote: "Room left to improve",
   monthsPerRun: "Months per run",
   fixedCost: "Fixed cost",
   passRate: "Share passing quality control",

@@ -152,6 +152,11 @@ export interface DecisionFile {
   sensitivity?: SensitivityEntry[];
   validation?: ValidationSize | null;
   clinical?: ClinicalFloor | null;
-  /** Plain warnings the report must show. */
+  /**
+   * The field the decision touches: the plan's `domain`, else the study's context or weigh's
+   * `--domain`, else "clinical" for a plan with a `clinical` block (see `decisionDomain`).
+   */
+  domain?: string;
+  /** Plain warnings the report must show, every one of them. */
   cautions?: string[];
 }

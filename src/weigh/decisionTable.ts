@@ -13,7 +13,7 @@
  */
 import { StreamPurpose, streamFor } from "../random.js";
 import type { DecisionRow } from "./decisionFile.js";
-import { costOfRuns, monthsOfRuns, type ResolvedPlan } from "./plan.js";
+import { costOfRuns, monthsOfRuns, type ResolvedPlan, type ValueBasis } from "./plan.js";
 import type { ProjectionGrid } from "./projectionGrid.js";
 import { runYield } from "./yields.js";
 import { quantileSorted } from "../forecast/quantile.js";
@@ -165,16 +165,7 @@ function rules(rows: DecisionRow[], resolved: ResolvedPlan, context: TableContex
   const floorHolds = minimum !== undefined && affordable.some(meetsMinimum);
   const candidates = floorHolds ? affordable.filter(meetsMinimum) : affordable;
 
-  const choose = (among: DecisionRow[]): number => {
-    if (resolved.valueBasis === "target") {
-      // No value per point: the fewest affordable runs that reach the target with the asked confidence.
-      const first = among.find((row) => (row.probabilityOfTarget as number) >= confidence);
-      return first?.runs ?? among[0]?.runs ?? 0;
-    }
-    let best: DecisionRow | undefined;
-    for (const row of among) if (best === undefined || row.expectedNetValue > best.expectedNetValue) best = row;
-    return best?.runs ?? 0;
-  };
+  const choose = (among: DecisionRow[]): number => chooseRuns(among, resolved.valueBasis, confidence);
   const recommendedRuns = choose(candidates);
 
   // Stopping rule: after `runs` runs, stop when the next run is not affordable, or when no further
@@ -220,6 +211,21 @@ function rules(rows: DecisionRow[], resolved: ResolvedPlan, context: TableContex
     recommendationFollowsClinicalMinimum: floorHolds && choose(affordable) !== recommendedRuns,
     clinicalMinimumUnaffordable: minimum !== undefined && !floorHolds,
   };
+}
+
+/**
+ * The recommendation among some rows: with a value per point, the row of highest expected net value;
+ * for a target-only plan, the fewest runs that reach the target with the asked confidence (else the
+ * first row).
+ */
+export function chooseRuns(among: readonly DecisionRow[], valueBasis: ValueBasis, confidence: number): number {
+  if (valueBasis === "target") {
+    const first = among.find((row) => (row.probabilityOfTarget as number) >= confidence);
+    return first?.runs ?? among[0]?.runs ?? 0;
+  }
+  let best: DecisionRow | undefined;
+  for (const row of among) if (best === undefined || row.expectedNetValue > best.expectedNetValue) best = row;
+  return best?.runs ?? 0;
 }
 
 /** Share of values at or past the target in the better direction. */

@@ -12,7 +12,7 @@ import { DataError } from "../errors.js";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import { message } from "../messages.js";
 import { StreamPurpose, streamFor } from "../random.js";
-import { clinicalSampleSize, criterionInWords } from "./clinicalSampleSize.js";
+import { clinicalSampleSize } from "./clinicalSampleSize.js";
 import type {
   ClinicalFloor,
   DecisionFile,
@@ -22,6 +22,16 @@ import type {
   ValueOfInformation,
 } from "./decisionFile.js";
 import { weighTable, type TableContext, type TableResult } from "./decisionTable.js";
+import {
+  clinicalSentence,
+  informationSentence,
+  peopleCaution,
+  recommendationSentence,
+  stopSentence,
+  targetSentence,
+  validationSentence,
+  type DecisionFacts,
+} from "./decisionWords.js";
 import { costOfRuns, resolvePlan, type Plan, type ResolvedPlan } from "./plan.js";
 import { ProjectionGrid } from "./projectionGrid.js";
 import { sensitivityOfRecommendation } from "./sensitivity.js";
@@ -81,12 +91,13 @@ const validationConfidence = 0.95;
 /**
  * Builds the decision.
  *
- * Phases: resolve the plan's defaults; check the forecast holds the sizes the plan reaches; the
+ * Phases: resolve the plan's defaults; check the forecast can be read at the sizes the plan reaches
+ * (any size when it stores its curves; else it must project to each of them); the
  * table and its rules (decisionTable.ts); the clinical minimum; the value of information of pilots;
  * the sensitivity of the recommendation; the validation-set size; the reasons and cautions.
  *
  * @param forecastFileName for messages
- * @throws DataError naming the training sizes the forecast lacks
+ * @throws DataError naming the training sizes a forecast without stored curves lacks
  */
 export function weighRuns(
   forecast: ForecastFile,
@@ -100,7 +111,7 @@ export function weighRuns(
   const grid = new ProjectionGrid(forecast);
   const required = sizesToProject(resolved.yieldModel, today, plan.maxRuns);
   const projected = new Set(grid.sizes);
-  const missing = required.filter((size) => !projected.has(size));
+  const missing = grid.readsAnySize ? [] : required.filter((size) => !projected.has(size));
   if (missing.length > 0) throw new DataError(message.missingProjections(forecastFileName, missing, required));
 
   // Orientation: +1 when a higher score is better, so that `sign * difference` is always a gain.
@@ -129,7 +140,20 @@ export function weighRuns(
   const sensitivity = sensitivityOfRecommendation(resolved, context, forecast.asymptote ?? forecast.parameters?.a);
   const validation = validationSize(forecast, plan, rows[result.recommendedRuns], context.metricRange);
 
-  const domain = plan.domain ?? options.domain;
+  const domain = decisionDomain(plan, options.domain);
+  const facts: DecisionFacts = {
+    plan,
+    valueBasis: resolved.valueBasis,
+    valuePerPoint: resolved.valuePerPoint,
+    rows,
+    recommendedRuns: result.recommendedRuns,
+    runsToTarget: result.runsToTarget,
+    stopAfterRuns: result.stopAfterRuns,
+    stopBecause: result.stopBecause,
+    clinical: clinicalFloor,
+    followsClinicalMinimum: result.recommendationFollowsClinicalMinimum,
+    clinicalMinimumUnaffordable: result.clinicalMinimumUnaffordable,
+  };
   return {
     kind: "headroom-decision",
     version: 1,
@@ -141,12 +165,12 @@ export function weighRuns(
     runsToTarget: result.runsToTarget,
     stopAfterRuns: result.stopAfterRuns,
     reasons: {
-      recommendedRuns: recommendationReason(result, resolved, clinicalFloor),
-      runsToTarget: plan.target === undefined ? null : targetReason(result, plan),
-      stopAfterRuns: stopReason(result, resolved),
-      valueOfInformation: informationReason(valueOfInformation),
-      validation: validationReason(validation),
-      clinical: clinicalReason(clinicalFloor, result),
+      recommendedRuns: recommendationSentence(facts),
+      runsToTarget: targetSentence(facts),
+      stopAfterRuns: stopSentence(facts),
+      valueOfInformation: informationSentence(valueOfInformation),
+      validation: validationSentence(validation),
+      clinical: clinicalSentence(facts),
     },
     table: rows,
     valueBasis: resolved.valueBasis,
@@ -155,6 +179,7 @@ export function weighRuns(
     sensitivity,
     validation,
     clinical: clinicalFloor,
+    ...(domain === undefined ? {} : { domain }),
     cautions: cautions(forecast, plan, domain, result, clinicalFloor, context.metricRange),
   };
 }
@@ -277,140 +302,15 @@ function validationSize(
   };
 }
 
-function plural(count: number, word: string): string {
-  return `${count} ${word}${count === 1 ? "" : "s"}`;
-}
-
-function money(value: number): string {
-  return Math.round(value).toLocaleString("en-US");
-}
-
-function limitsInWords(plan: Plan): string {
-  if (plan.budget !== undefined && plan.deadlineMonths !== undefined) return "the budget and the deadline";
-  if (plan.budget !== undefined) return "the budget";
-  if (plan.deadlineMonths !== undefined) return "the deadline";
-  return "";
-}
-
-function recommendationReason(result: TableResult, resolved: ResolvedPlan, clinical: ClinicalFloor | null): string {
-  const { plan } = resolved;
-  const row = result.rows[result.recommendedRuns];
-  const next = result.rows[1];
-  const limits = limitsInWords(plan);
-  const floor =
-    clinical !== null && result.recommendationFollowsClinicalMinimum
-      ? ` among the runs that reach the minimum of ${clinical.participants} participants (Riley et al.)`
-      : "";
-  if (resolved.valueBasis === "target") {
-    const confidence = `${Math.round(plan.targetConfidence * 100)}%`;
-    if (row.runs === 0 && (row.probabilityOfTarget as number) >= plan.targetConfidence) {
-      return `The model already reaches the target with at least ${confidence} probability.`;
-    }
-    if ((row.probabilityOfTarget as number) >= plan.targetConfidence) {
-      return `${plural(row.runs, "further run")} ${row.runs === 1 ? "is" : "are"} the fewest${limits ? ` within ${limits}` : ""} that reach the target with at least ${confidence} probability${floor}.`;
-    }
-    const minimum =
-      clinical !== null && row.runs > 0
-        ? `; ${plural(row.runs, "further run")} reach the minimum of ${clinical.participants} participants (Riley et al.)`
-        : "";
-    return `No number of further runs${limits ? ` within ${limits}` : ""} reaches the target with ${confidence} probability${minimum}.`;
-  }
-  if (row.runs === 0) {
-    if (next && !next.affordable) {
-      return `No further run fits within ${limits || "the budget"}.`;
-    }
-    return "No number of further runs is expected to add more value than it costs.";
-  }
-  const within = limits
-    ? `the runs ${limits} allow${limits.includes(" and ") ? "" : "s"}`
-    : `up to ${plan.maxRuns} runs`;
-  return `${row.runs} further run${row.runs === 1 ? " gives" : "s give"} the highest expected net value (${money(row.expectedNetValue)}) among ${within}${floor}.`;
-}
-
-function targetReason(result: TableResult, plan: Plan): string {
-  const confidence = `${Math.round(plan.targetConfidence * 100)}%`;
-  const row = result.runsToTarget === null ? undefined : result.rows[result.runsToTarget];
-  return row === undefined
-    ? `Within ${plan.maxRuns} further runs the target is not reached with ${confidence} probability.`
-    : `${row.runs} further run${row.runs === 1 ? "" : "s"} reach the target with at least ${confidence} probability (${Math.round((row.probabilityOfTarget as number) * 100)}%).`;
-}
-
-function stopReason(result: TableResult, resolved: ResolvedPlan): string | null {
-  const runs = result.stopAfterRuns;
-  if (runs === null) return null;
-  const next = result.rows[runs + 1];
-  const stop = runs === 0 ? "Stop now" : `Stop after ${plural(runs, "run")}`;
-  const ordinal = `run ${runs + 1}`;
-  switch (result.stopBecause) {
-    case "lastRun":
-      return `Every run up to the plan's ${resolved.plan.maxRuns} is expected to be worth more than it costs.`;
-    case "overBudget":
-      return `${stop}: ${ordinal} would take the cost past the budget.`;
-    case "pastDeadline":
-      return `${stop}: ${ordinal} would end after the deadline.`;
-    default: {
-      const worth = resolved.valuePerPoint * 100 * (next.marginalGain as number);
-      const cost = next.cost - result.rows[runs].cost;
-      const more = runs + 1 < resolved.plan.maxRuns ? "; no more runs would pay for themselves either" : "";
-      return `${stop}: ${ordinal} is expected to add a gain worth ${money(worth)}, less than the ${money(cost)} it costs${more}.`;
-    }
-  }
-}
-
-function informationReason(information: ValueOfInformation | null): string | null {
-  if (information === null || information.pilots.length === 0) return null;
-  const best = information.pilots.reduce((a, b) => (b.evsi > a.evsi ? b : a));
-  const rest = information.programmeRuns - best.runs;
-  if (best.evsi <= 2 * best.standardError) {
-    const largest = information.pilots[information.pilots.length - 1].runs;
-    const pilots = largest === 1 ? "a pilot of 1 run" : `a pilot of 1 to ${largest} runs`;
-    return `Measuring the curve again after ${pilots} is not expected to change the decision on the rest of the ${information.programmeRuns} affordable runs.`;
-  }
-  return (
-    `Measuring the curve again after ${plural(best.runs, "run")} before paying for the other ${rest} is worth ` +
-    `about ${money(best.evsi)} to that decision (expected value of sample information).`
-  );
-}
-
-function validationReason(validation: ValidationSize | null): string | null {
-  if (validation === null) return null;
-  const percent = (v: number) => `${(v * 100).toFixed(1)}%`;
-  if (validation.expectedScore <= validation.target) {
-    return `The expected score of ${percent(validation.expectedScore)} does not exceed the target of ${percent(validation.target)}, so no held-out set can be expected to support the target.`;
-  }
-  if (validation.heldOutNeeded === null) {
-    return `The expected score of ${percent(validation.expectedScore)} is so close to the target of ${percent(validation.target)} that more than ten million held-out samples would be needed to support it.`;
-  }
-  const exact =
-    validation.heldOutNeededExact === null
-      ? ""
-      : ` (${validation.heldOutNeededExact} by the exact Clopper–Pearson bound)`;
-  return (
-    `Supporting the target of ${percent(validation.target)} with an expected score of ` +
-    `${percent(validation.expectedScore)} needs about ${validation.heldOutNeeded} held-out samples${exact}, ` +
-    `for a one-sided 95% lower bound above the target.`
-  );
-}
-
-function clinicalReason(clinical: ClinicalFloor | null, result: TableResult): string | null {
-  if (clinical === null) return null;
-  const where =
-    clinical.runsToMinimum === null
-      ? "which no number of runs in the plan reaches"
-      : clinical.runsToMinimum === 0
-        ? "which today's data already reach"
-        : `reached after ${plural(clinical.runsToMinimum, "further run")}`;
-  const unaffordable = result.clinicalMinimumUnaffordable ? ", but not within the budget and deadline" : "";
-  return (
-    `A clinical prediction model of a binary outcome needs at least ${clinical.participants} participants ` +
-    `(${clinical.events} events, ${clinical.eventsPerParameter.toFixed(1)} per predictor parameter; Riley et al. 2019), ` +
-    `set by ${criterionInWords(clinical.binding)}, ${where}${unaffordable}.`
-  );
-}
-
-/** Does the domain touch decisions about people? */
-function aboutPeople(domain: string | undefined): boolean {
-  return domain !== undefined && /clinic|health|medic|hospital|patient|care|safety|public/i.test(domain);
+/**
+ * The field the decision touches, from one order of sources: the plan's `domain` first (the plan
+ * describes the decision), then the one given beside it (the study's `context.domain`, or weigh's
+ * `--domain`). A `clinical` block with neither makes it "clinical". decision.json records the result
+ * as `domain`, which the report reads when it is not given its own.
+ */
+export function decisionDomain(plan: Plan, given: string | undefined): string | undefined {
+  const named = [plan.domain, given].find((d) => d !== undefined && d.trim() !== "");
+  return named?.trim() ?? (plan.clinical !== undefined ? "clinical" : undefined);
 }
 
 function cautions(
@@ -422,12 +322,8 @@ function cautions(
   metricRange: [number, number] | undefined,
 ): string[] {
   const list: string[] = [];
-  if (aboutPeople(domain) || plan.clinical !== undefined) {
-    list.push(
-      "This model informs decisions about people. Projections are not validation: independent validation, " +
-        "regulatory requirements and licensed professional practice decide whether and how it may be used.",
-    );
-  }
+  const people = peopleCaution(domain, plan.clinical !== undefined);
+  if (people !== null) list.push(people);
   if (clinical !== null && result.clinicalMinimumUnaffordable) {
     list.push(
       `No affordable number of runs reaches the minimum of ${clinical.participants} participants for a clinical ` +

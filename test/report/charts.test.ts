@@ -301,10 +301,10 @@ describe("learningCurveChart", () => {
     // Each layer's data names its series, so the legend lists the four in this order.
     const seriesOf = (type: string) => layers.find((l) => l.mark.type === type)!.data!.values[0].series;
     expect([seriesOf("circle"), seriesOf("point"), seriesOf("line"), seriesOf("area")]).toEqual([
-      "Each fit",
-      "Mean ± 1 sd",
+      "One trial model",
+      "Average, with typical spread",
       "Fitted curve",
-      "80% projection band",
+      "Likely range (8 in 10)",
     ]);
     const hues = Object.values(okabeIto);
     for (const role of ["curve", "band", "runs", "target", "gain", "loss", "probability"] as const) {
@@ -316,7 +316,7 @@ describe("learningCurveChart", () => {
     expect(parts.title.text).toBe("Learning curve: accuracy against training samples");
     // Means 0.7 → 70% and 0.8293 → 83%; band end 0.8608 (0.8448 to 0.8768) → 86% (84% to 88%).
     expect(parts.description).toContain("from 100 to 800 samples, where the mean accuracy went from 70% to 83%");
-    expect(parts.description).toContain("projects 86% at 2,600 samples (80% band 84% to 88%)");
+    expect(parts.description).toContain("projects 86% at 2,600 samples (likely between 84% and 88%, 8 in 10)");
     expect(parts.description).toContain("The target is 85%.");
   });
 });
@@ -341,7 +341,7 @@ describe("scoreChart", () => {
     // Rules: 5 single-model intervals + 5 intervals + the target + the required chance.
     expect(countOf(markCounts(svg), "rule")).toBe(5 + 5 + 1 + 1);
     expect(svg).toContain(
-      ">Thin grey bars: where one model, scored on 1,000 test samples, lands with 80% probability.</tspan>",
+      ">Thin grey bars: where one model, scored on 1,000 test samples, lands 8 in 10 times.</tspan>",
     );
     // The last row (2,600 samples): 0.8448 − 0.02 to 0.8768 + 0.02 → 82% to 90%.
     expect(loose(spec).description).toContain(
@@ -366,12 +366,14 @@ describe("scoreChart", () => {
 
   it("has a text alternative naming the chances", () => {
     const { description } = loose(scoreChart(sampleDecision, { metricRange: [0, 1] }));
-    expect(description).toContain("goes from 84% now to 86% after 4 further runs (80% interval 84% to 88%)");
+    expect(description).toContain(
+      "goes from 84% now to 86% after 4 further runs (likely between 84% and 88%, 8 in 10)",
+    );
     expect(description).toContain("is 20% now and 83% after 4 runs; the plan asks for 80%.");
   });
 });
 
-describe("netValueChart and its what-if controls", () => {
+describe("netValueChart and its cost and value sliders", () => {
   const spec = netValueChart(sampleDecision, { currency: "EUR", metricRange: [0, 1] });
 
   /** The recommendation the chart states after setting `signals`, drawn by vega in Node. */
@@ -522,7 +524,7 @@ describe("netValueChart and its what-if controls", () => {
 
   it("has a text alternative with the recommendation, its interval and its chance", () => {
     expect(loose(spec).description).toContain(
-      "The recommendation is 2 (20,400 EUR, 80% interval −6,000 EUR to 47,000 EUR), with a 81% chance that " +
+      "The recommendation is 2 (20,400 EUR, likely between −6,000 EUR and 47,000 EUR (8 in 10)), with a 81% chance that " +
         "the value exceeds the cost.",
     );
     expect(loose(netValueChart(stopDecision)).description).toContain("The recommendation is no further run.");
@@ -556,9 +558,9 @@ describe("backtestChart", () => {
     const input = backtestOf(familiesForecast)!;
     expect(input.familyWeights).toEqual({ pow3: 0.9, last: 0.1 });
     const { svg } = await renderSvg(backtestChart(input));
-    expect(svg).toContain(">Root mean square error (percentage points)</text>");
+    expect(svg).toContain(">Typical miss (points)</text>");
     expect(loose(backtestChart(input)).description).toContain(
-      "Root mean square errors: pow3 0.5 percentage points, last 5.0 percentage points.",
+      "Typical miss of each: pow3 (power law) 0.5 points, last (no further gain) 5.0 points.",
     );
     expect(backtestOf(sampleForecast)).toBeUndefined();
   });
@@ -571,12 +573,12 @@ describe("backtestChart", () => {
     expect(countOf(counts, "rect")).toBe(2);
     expect(svg).toContain(">weight 90%</text>");
     expect(svg).toContain(">weight 10%</text>");
-    expect(svg).toContain(">Mean absolute error (percentage points)</text>");
+    expect(svg).toContain(">Average miss (points)</text>");
   });
 
   it("states the errors in its text alternative", () => {
     expect(loose(backtestChart(sampleBacktest)).description).toContain(
-      "Mean absolute errors: pow3 0.5 percentage points, last 4.7 percentage points. The smallest is pow3's.",
+      "Average miss of each: pow3 (power law) 0.5 points, last (no further gain) 4.7 points. The smallest is that of pow3 (power law).",
     );
   });
 });
@@ -589,7 +591,7 @@ describe("sensitivityChart", () => {
     const y = layers[0].encoding!.y as unknown as { sort: string[] };
     // Swings around the base of 20,400: value per point 37,000 − 7,100; ceiling 33,000 − 9,000;
     // cost per run 32,900 − 11,300; samples per run 25,000 − 20,400 (its lower side is missing).
-    expect(y.sort).toEqual(["Value per point", "Headroom to the curve's ceiling", "Cost per run", "Samples per run"]);
+    expect(y.sort).toEqual(["Value per point", "Room left to improve", "Cost per run", "Samples per run"]);
   });
 
   it("draws a bar per computed side, the base, and bold labels where the advice changes", async () => {

@@ -1,6 +1,7 @@
 import { Command } from "commander";
 import { toJson, writeFileAtomic } from "../../io/files.js";
 import type { DecisionFile } from "../../weigh/decisionFile.js";
+import { beyondLimitsTag } from "../../weigh/decisionWords.js";
 import type { CliIo } from "../io.js";
 
 export function weighCommand(io: CliIo): Command {
@@ -55,7 +56,7 @@ export function decisionText(decision: DecisionFile): string {
         Math.round(row.expectedNetValue),
         netInterval,
         row.probabilityNetPositive === undefined ? "-" : row.probabilityNetPositive.toFixed(2),
-      ].join("\t") + (row.affordable ? "" : "\t(over budget or deadline)"),
+      ].join("\t") + (row.affordable ? "" : `\t(${beyondLimitsTag(row)})`),
     );
   }
   const { reasons } = decision;

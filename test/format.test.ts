@@ -6,6 +6,7 @@
 import { describe, expect, it } from "vitest";
 import {
   countInWords,
+  formatChance,
   describeMetric,
   formatCount,
   formatExactScore,
@@ -17,7 +18,7 @@ import {
   formatScore,
   moreRuns,
   scoreStyle,
-} from "../../src/report/format.js";
+} from "../src/format.js";
 
 const accuracy = describeMetric("accuracy", true);
 const logLoss = describeMetric("log_loss", false);
@@ -122,5 +123,18 @@ describe("metrics in words", () => {
   ])("runs in words: %d", (runs, words, phrase) => {
     expect(countInWords(runs)).toBe(words);
     expect(moreRuns(runs)).toBe(phrase);
+  });
+});
+
+describe("formatChance", () => {
+  it.each<[number, number | undefined, string]>([
+    [0.795, 0.8, "79.5%"], // short of the asked 80%: not rounded up to it
+    [0.7999, 0.8, "79.9%"],
+    [0.8, 0.8, "80%"],
+    [0.83, 0.8, "83%"],
+    [0.795, undefined, "80%"],
+    [0.62, 0.8, "62%"],
+  ])("%d against %s → %s", (probability, asked, text) => {
+    expect(formatChance(probability, asked)).toBe(text);
   });
 });

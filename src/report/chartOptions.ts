@@ -6,7 +6,7 @@
  * function with its data inlined as `values`.
  */
 import type { TopLevelSpec } from "vega-lite";
-import type { MetricInfo } from "./format.js";
+import type { MetricInfo } from "../format.js";
 import { chartSize } from "./theme.js";
 
 /** The Vega-Lite schema the specs follow (vega-lite 6). */

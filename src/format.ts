@@ -5,7 +5,7 @@
  * Everything here is deterministic and locale-free (no `toLocaleString`, whose output depends on the
  * ICU data Node was built with), so the same input gives byte-identical reports everywhere.
  */
-import { findMetric } from "../curve/metrics.js";
+import { findMetric } from "./curve/metrics.js";
 
 /** The minus sign used in prose and tables (U+2212), which lines up with digits unlike "-". */
 const minus = "\u2212";
@@ -26,6 +26,12 @@ export function formatNumber(value: number, decimals = 0): string {
   const body = groupThousands(whole) + (fraction === undefined ? "" : "." + fraction);
   const isZero = Number(fixed) === 0;
   return (value < 0 && !isZero ? minus : "") + body;
+}
+
+/** A number to `digits` significant digits, without trailing zeros or separators: 0.912345 → "0.9123". */
+export function formatSignificant(value: number, digits = 4): string {
+  if (!Number.isFinite(value)) return String(value);
+  return Number(value.toPrecision(digits)).toString();
 }
 
 /** A count of samples or rows: "66,000". */
@@ -59,6 +65,39 @@ export function formatProbability(probability: number): string {
   if (probability < 0.005) return probability <= 0 ? "0%" : "under 1%";
   if (probability > 0.995) return probability >= 1 ? "100%" : "over 99%";
   return `${Math.round(probability * 100)}%`;
+}
+
+/**
+ * An interval's level as odds a lead reads at a glance: 0.8 → "8 in 10", 0.95 → "19 in 20",
+ * 0.99 → "99 in 100" (the smallest of 10, 20, 100 and 1,000 that makes it whole; else a percentage).
+ */
+export function formatOdds(level: number): string {
+  for (const out of [10, 20, 100, 1000]) {
+    const hits = level * out;
+    if (Math.abs(hits - Math.round(hits)) < 1e-9) return `${formatNumber(Math.round(hits))} in ${formatNumber(out)}`;
+  }
+  return formatLevel(level);
+}
+
+/** The text with its first letter in capitals. */
+export function capitalise(text: string): string {
+  return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** The words for an interval of this level: "likely range (8 in 10)". */
+export function likelyRange(level: number): string {
+  return `likely range (${formatOdds(level)})`;
+}
+
+/**
+ * The chance of reaching a target beside the chance the plan asks for: as `formatProbability`, but a
+ * chance just short of the one asked is not rounded up to it (0.795 against 0.8 → "79.5%", not
+ * "80%"), so that the page never shows the asked chance for a row that falls short of it.
+ */
+export function formatChance(probability: number, asked: number | undefined): string {
+  const text = formatProbability(probability);
+  if (asked === undefined || probability >= asked || text !== formatProbability(asked)) return text;
+  return `${formatNumber(Math.floor(probability * 1000) / 10, 1)}%`;
 }
 
 /** An interval level as a percentage: 0.8 → "80%", 0.95 → "95%", 0.995 → "99.5%". */

@@ -1,0 +1,68 @@
+/**
+ * The forecast's curves as forecast.json stores them, and their evaluation at any training size.
+ *
+ * A forecast writes its projections at a few sizes, but `weigh` needs the score after any number of
+ * runs of any yield. So the file also keeps, compactly, what the projections were computed from: each
+ * drawn curve (family by name, parameters in oriented units, shared shift, extrapolation error) and
+ * each family's point fit with its weight. Both `forecast` and `weigh` evaluate them through the same
+ * functions (`drawnValue` in drawCurves.ts for a drawn curve, `expectedValue` here for the point
+ * forecast), so a size the forecast did not project to gets exactly the value it would have had.
+ *
+ * A stored curve is the drawn curve with its family replaced by the family's name: any field the
+ * draw gains travels with it unchanged.
+ */
+import { findCurveFamily, orientationSign, orientedRange, type CurveFamily } from "../fit/families.js";
+import { drawnValue, type DrawnCurve } from "./drawCurves.js";
+import type { ForecastFile, StoredCurve, StoredFit } from "./forecastFile.js";
+
+/** A family's point fit with its weight in the combined forecast, in oriented units. */
+export interface WeightedFit {
+  family: CurveFamily;
+  weight: number;
+  parameters: readonly number[];
+}
+
+/** The oriented expected score at a size: the weighted mean of the families' fits, clamped to the range. */
+export function expectedValue(fits: readonly WeightedFit[], trainingSize: number, range?: [number, number]): number {
+  const value = fits.reduce((sum, f) => sum + f.weight * f.family.model(trainingSize, f.parameters), 0);
+  return range === undefined ? value : Math.min(range[1], Math.max(range[0], value));
+}
+
+export function storeCurve(curve: DrawnCurve): StoredCurve {
+  const { family, ...rest } = curve;
+  return { ...rest, family: family.name, parameters: [...curve.parameters] };
+}
+
+export function storeFit(fit: WeightedFit): StoredFit {
+  return { family: fit.family.name, weight: fit.weight, parameters: [...fit.parameters] };
+}
+
+/** The forecast's curves, evaluated in the metric's own units at any training size. */
+export interface ForecastCurves {
+  drawCount: number;
+  /** Draw j's score at `trainingSize`. */
+  drawAt(trainingSize: number, draw: number): number;
+  /** The point forecast's expected score at `trainingSize`. */
+  expectedAt(trainingSize: number): number;
+}
+
+/**
+ * The stored curves of a forecast, ready to evaluate; undefined for a forecast file written before
+ * forecasts kept their curves (or without them).
+ * @throws FitError when a stored family is unknown
+ */
+export function forecastCurves(forecast: ForecastFile): ForecastCurves | undefined {
+  const stored = forecast.curves;
+  if (stored === undefined || stored.drawn.length === 0 || stored.fits.length === 0) return undefined;
+  const orientation = { higherIsBetter: forecast.higherIsBetter, metricRange: forecast.metricRange };
+  const sign = orientationSign(orientation);
+  const range = orientedRange(orientation);
+  const largest = forecast.largestMeasuredSize;
+  const drawn: DrawnCurve[] = stored.drawn.map((curve) => ({ ...curve, family: findCurveFamily(curve.family) }));
+  const fits: WeightedFit[] = stored.fits.map((fit) => ({ ...fit, family: findCurveFamily(fit.family) }));
+  return {
+    drawCount: drawn.length,
+    drawAt: (trainingSize, draw) => sign * drawnValue(drawn[draw], trainingSize, largest, range) + 0,
+    expectedAt: (trainingSize) => sign * expectedValue(fits, trainingSize, range) + 0,
+  };
+}

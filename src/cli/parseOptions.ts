@@ -39,3 +39,11 @@ export function optionalSizeList(option: string, text: string | undefined): numb
   if (parts.some((p) => !/^\d+$/.test(p) || Number(p) < 1)) throw new UsageError(message.badList(option, text));
   return [...new Set(parts.map(Number))].sort((a, b) => a - b);
 }
+
+/** A positive number of seconds (`--trainer-timeout`), or undefined when not given. */
+export function optionalSeconds(text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  const value = Number(text.trim());
+  if (text.trim() === "" || !(value > 0) || !Number.isFinite(value)) throw new UsageError(message.badTimeout(text));
+  return value;
+}

@@ -10,11 +10,11 @@
  * or R the checks are skipped, except in CI (CI=true), where `.ci/run` installs them.
  */
 import { execFileSync } from "node:child_process";
-import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
-import { describe, expect, it } from "vitest";
+import { afterAll, describe, expect, it } from "vitest";
 import { run } from "../../src/cli/program.js";
 import type { CurveFile } from "../../src/curve/curveFile.js";
 import { ExitCode } from "../../src/errors.js";
@@ -24,6 +24,7 @@ const root = fileURLToPath(new URL("../../", import.meta.url));
 const python = "/usr/bin/python3";
 const iris = join(root, "fixtures/open-data/iris.csv");
 const dir = mkdtempSync(join(tmpdir(), "headroom-examples-"));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 function works(command: string, args: string[]): boolean {
   try {

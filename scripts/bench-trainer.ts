@@ -40,7 +40,10 @@ const lines = readFileSync(iris, "utf8").trim().split(/\r?\n/);
 const train = join(work, "train.csv");
 const test = join(work, "test.csv");
 writeFileSync(train, `${[lines[0], ...lines.slice(1, 61)].join("\n")}\n`);
-writeFileSync(test, `${[lines[0].replace(/,class$/, ""), ...lines.slice(61, 91).map((l) => l.replace(/,[^,]*$/, ""))].join("\n")}\n`);
+writeFileSync(
+  test,
+  `${[lines[0].replace(/,class$/, ""), ...lines.slice(61, 91).map((l) => l.replace(/,[^,]*$/, ""))].join("\n")}\n`,
+);
 const env = {
   ...process.env,
   HEADROOM_TRAIN: train,
@@ -76,7 +79,9 @@ function headroom(command: string): number {
   });
 }
 
-process.stdout.write(`per-fit cost around a trivial trainer, ${fits} fits, best of ${runs}; load average ${loadavg()[0].toFixed(2)}\n`);
+process.stdout.write(
+  `per-fit cost around a trivial trainer, ${fits} fits, best of ${runs}; load average ${loadavg()[0].toFixed(2)}\n`,
+);
 process.stdout.write("trainer | bare s | headroom s | ratio | headroom ms per fit beyond bare\n");
 for (const [name, command] of trainers) {
   let bareBest = Infinity;

@@ -124,7 +124,8 @@ export const message = {
     code !== null ? `the trainer exited with code ${code}` : `the trainer was stopped by signal ${signal}`,
   trainerStartFailed: (reason: string) => `the trainer could not be started (${reason})`,
   trainerTimeout: (seconds: number) => `the trainer ran longer than --trainer-timeout ${seconds} s and was stopped`,
-  trainerNoPredictions: (file: string) => `the trainer wrote no predictions file (expected ${file}, HEADROOM_PREDICTIONS)`,
+  trainerNoPredictions: (file: string) =>
+    `the trainer wrote no predictions file (expected ${file}, HEADROOM_PREDICTIONS)`,
   trainerRowCount: (expected: number, found: number) =>
     `the predictions file has ${found} row${found === 1 ? "" : "s"}, but the test file has ${expected}`,
   trainerUnknownClass: (line: number, name: string, known: string[]) =>
@@ -146,15 +147,16 @@ export const message = {
     `${option} cannot be used with --trainer: the trainer program is the model (set its settings inside it)`,
   badTimeout: (text: string) => `--trainer-timeout: '${clip(text)}' is not a positive number of seconds`,
   unknownPlace: (text: string) => `--on: unknown place '${clip(text)}' (known: local, slurm)`,
-  slurmNeedsFolder: () =>
-    `--on slurm needs --tasks-dir naming a folder on a file system the cluster's nodes share`,
+  slurmNeedsFolder: () => `--on slurm needs --tasks-dir naming a folder on a file system the cluster's nodes share`,
   slurmOnlyOption: (option: string) => `${option} is only used with --on slurm`,
   sbatchMissing: () =>
     `--on slurm: sbatch is not on PATH; run headroom on a SLURM login node (or load the slurm module) first`,
-  sbatchFailed: (detail: string) => `--on slurm: sbatch refused the job: ${detail.replace(/\s+/g, " ").trim().slice(0, 300)}`,
+  sbatchFailed: (detail: string) =>
+    `--on slurm: sbatch refused the job: ${detail.replace(/\s+/g, " ").trim().slice(0, 300)}`,
   tasksDirInUse: (dir: string) =>
     `${dir}: this folder already holds tasks of a measurement; gather them with headroom collect, or choose an empty folder`,
-  notTasksDir: (dir: string) => `${dir}: no tasks of a measurement here (no job.json written by headroom measure --on slurm)`,
+  notTasksDir: (dir: string) =>
+    `${dir}: no tasks of a measurement here (no job.json written by headroom measure --on slurm)`,
   tasksDataChanged: (dir: string, file: string) =>
     `${dir}: the data file ${file} changed since the tasks were written; restore it, or measure again into a new folder`,
   tasksIncomplete: (dir: string, done: number, total: number, failed: string[], rerun: string) =>

@@ -27,7 +27,10 @@ export interface Placement {
 }
 
 /** Reads a CSV, builds the data set and measures its learning curve (where `on` says). */
-export async function measureFile(file: string, options: ColumnChoice & MeasureOptions & Placement): Promise<CurveFile> {
+export async function measureFile(
+  file: string,
+  options: ColumnChoice & MeasureOptions & Placement,
+): Promise<CurveFile> {
   // The task (classes or a numeric target) decides how the label column is read.
   const { task } = resolveMeasureOptions(options);
   const on = options.on ?? "local";
@@ -60,7 +63,19 @@ export async function measureFile(file: string, options: ColumnChoice & MeasureO
 function storedOptions(options: MeasureOptions): StoredMeasureOptions {
   const { folds, repeats, trainingSizes, seed, task, learner, metric, tune, byRuns, trainer, trainerTimeout } = options;
   return JSON.parse(
-    JSON.stringify({ folds, repeats, trainingSizes, seed, task, learner, metric, tune, byRuns, trainer, trainerTimeout }),
+    JSON.stringify({
+      folds,
+      repeats,
+      trainingSizes,
+      seed,
+      task,
+      learner,
+      metric,
+      tune,
+      byRuns,
+      trainer,
+      trainerTimeout,
+    }),
   ) as StoredMeasureOptions;
 }
 
@@ -75,7 +90,8 @@ export async function collectCurve(
 ): Promise<{ curve: CurveFile; dataFile: string }> {
   const { gatherRunner, readJob } = await import("./cluster/slurm.js");
   const job = readJob(dir);
-  if (sha256OfFile(job.data.file) !== job.data.sha256) throw new DataError(message.tasksDataChanged(dir, job.data.file));
+  if (sha256OfFile(job.data.file) !== job.data.sha256)
+    throw new DataError(message.tasksDataChanged(dir, job.data.file));
   const options = { ...job.measure, runTasks: gatherRunner(dir, job), onProgress };
   const task = job.read.task ?? "classification";
   return { curve: await measureRead(job.data.file, task, options, job.read), dataFile: job.data.file };

@@ -30,7 +30,17 @@ import type { MeasureOptions, TaskRunner } from "../curve/measure.js";
 /** The measurement options that change the tasks, as kept in job.json (plain JSON). */
 export type StoredMeasureOptions = Pick<
   MeasureOptions,
-  "folds" | "repeats" | "trainingSizes" | "seed" | "task" | "learner" | "metric" | "tune" | "byRuns" | "trainer" | "trainerTimeout"
+  | "folds"
+  | "repeats"
+  | "trainingSizes"
+  | "seed"
+  | "task"
+  | "learner"
+  | "metric"
+  | "tune"
+  | "byRuns"
+  | "trainer"
+  | "trainerTimeout"
 >;
 
 interface StoredTask {
@@ -90,7 +100,8 @@ export interface SlurmRun {
 /** @throws UsageError when sbatch is not on PATH */
 export function checkSbatch(): void {
   const probe = spawnSync("sbatch", ["--version"], { stdio: "ignore" });
-  if ((probe.error as NodeJS.ErrnoException | undefined)?.code === "ENOENT") throw new UsageError(message.sbatchMissing());
+  if ((probe.error as NodeJS.ErrnoException | undefined)?.code === "ENOENT")
+    throw new UsageError(message.sbatchMissing());
 }
 
 /**
@@ -210,8 +221,7 @@ async function follow(
     ended = !jobActive(jobId);
     if (ended) continue;
     await sleep(slurmSettings.pollMilliseconds, signal);
-    if (signal?.aborted)
-      throw new InterruptedError(message.slurmDetached(jobId, dir, run.out ?? "curve.json"));
+    if (signal?.aborted) throw new InterruptedError(message.slurmDetached(jobId, dir, run.out ?? "curve.json"));
   }
   return gather(dir, job, total);
 }
@@ -287,7 +297,7 @@ function range(count: number): number[] {
 export function elementList(elements: number[]): string {
   const sorted = [...elements].sort((a, b) => a - b);
   const parts: string[] = [];
-  for (let i = 0; i < sorted.length; ) {
+  for (let i = 0; i < sorted.length;) {
     let j = i;
     while (j + 1 < sorted.length && sorted[j + 1] === sorted[j] + 1) j++;
     parts.push(i === j ? String(sorted[i]) : `${sorted[i]}-${sorted[j]}`);
@@ -326,16 +336,27 @@ export async function runTaskElement(dir: string, element: number): Promise<void
   const job = readJob(dir);
   if (!Number.isInteger(element) || element < 0 || element >= job.elements)
     throw new UsageError(message.taskElement(String(element), job.elements));
-  if (sha256OfFile(job.data.file) !== job.data.sha256) throw new DataError(message.tasksDataChanged(dir, job.data.file));
+  if (sha256OfFile(job.data.file) !== job.data.sha256)
+    throw new DataError(message.tasksDataChanged(dir, job.data.file));
   const data = readDataset(job.data.file, job.read);
   const first = element * job.tasksPerElement;
   const tasks = job.tasks.slice(first, first + job.tasksPerElement).map(loadTask);
   let failure: unknown;
-  let trainer: { table: import("../curve/trainer.js").TrainerTable; folder: string; module: typeof import("../curve/trainer.js") } | undefined;
+  let trainer:
+    | {
+        table: import("../curve/trainer.js").TrainerTable;
+        folder: string;
+        module: typeof import("../curve/trainer.js");
+      }
+    | undefined;
   try {
     if (job.plan.trainer !== undefined) {
       const module = await import("../curve/trainer.js");
-      trainer = { module, table: module.readTrainerTable(job.data.file, job.read.label), folder: module.makeTrainerFolder() };
+      trainer = {
+        module,
+        table: module.readTrainerTable(job.data.file, job.read.label),
+        folder: module.makeTrainerFolder(),
+      };
     }
     for (const task of tasks) {
       const failedFile = join(dir, "failed", `task-${task.index}.txt`);
@@ -345,7 +366,10 @@ export async function runTaskElement(dir: string, element: number): Promise<void
             ? runFitTask(data, job.plan, task)
             : await trainer.module.runTrainerTask(data, trainer.table, job.plan, task, trainer.folder);
         const encoded = scores.map((s) => (Number.isFinite(s) ? s : String(s)));
-        writeFileAtomic(join(dir, "results", `task-${task.index}.json`), `${JSON.stringify({ task: task.index, scores: encoded })}\n`);
+        writeFileAtomic(
+          join(dir, "results", `task-${task.index}.json`),
+          `${JSON.stringify({ task: task.index, scores: encoded })}\n`,
+        );
         rmSync(failedFile, { force: true });
       } catch (error) {
         failure ??= error;

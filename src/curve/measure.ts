@@ -148,7 +148,10 @@ export function resolveMeasureOptions(
     if (options.learner !== undefined) throw new UsageError(message.trainerWithLearner("--learner"));
     if (resolved.tune) throw new UsageError(message.trainerWithLearner("--tune"));
   }
-  if (resolved.trainerTimeout !== undefined && !(resolved.trainerTimeout > 0 && Number.isFinite(resolved.trainerTimeout)))
+  if (
+    resolved.trainerTimeout !== undefined &&
+    !(resolved.trainerTimeout > 0 && Number.isFinite(resolved.trainerTimeout))
+  )
     throw new UsageError(message.badTimeout(String(resolved.trainerTimeout)));
   if (resolved.folds !== "loo" && (!Number.isInteger(resolved.folds) || resolved.folds < 2))
     throw new UsageError(message.badFolds(String(resolved.folds)));
@@ -277,7 +280,12 @@ export async function measureCurve(
     groupedInner: design.grouped,
     ...(o.trainer === undefined
       ? {}
-      : { trainer: { command: o.trainer, ...(o.trainerTimeout === undefined ? {} : { timeoutSeconds: o.trainerTimeout }) } }),
+      : {
+          trainer: {
+            command: o.trainer,
+            ...(o.trainerTimeout === undefined ? {} : { timeoutSeconds: o.trainerTimeout }),
+          },
+        }),
   };
   // What a checkpoint must match to be resumed: the data, every option that changes a score, the
   // version. A trainer's timeout changes no score, so a run stopped by it may resume with another.

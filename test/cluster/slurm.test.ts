@@ -34,7 +34,10 @@ function clusterUp(): boolean {
 const up = clusterUp();
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-function headroom(argv: string[], env: NodeJS.ProcessEnv = process.env): Promise<{ code: number; stdout: string; stderr: string }> {
+function headroom(
+  argv: string[],
+  env: NodeJS.ProcessEnv = process.env,
+): Promise<{ code: number; stdout: string; stderr: string }> {
   return new Promise((resolve) => {
     execFile(process.execPath, [built, ...argv], { cwd: dir, env }, (error, stdout, stderr) =>
       resolve({ code: error ? Number((error as { code?: number }).code ?? 1) : 0, stdout, stderr }),
@@ -49,9 +52,21 @@ async function measureBoth(name: string, extra: string[]): Promise<void> {
   const local = await headroom(["measure", ...design, ...extra, "--out", `${name}-local.json`]);
   expect(local.code, local.stderr).toBe(0);
   const tasks = join(dir, `${name}-tasks`);
-  const slurm = await headroom(["measure", ...design, ...extra, "--on", "slurm", "--tasks-dir", tasks, "--out", `${name}-slurm.json`]);
+  const slurm = await headroom([
+    "measure",
+    ...design,
+    ...extra,
+    "--on",
+    "slurm",
+    "--tasks-dir",
+    tasks,
+    "--out",
+    `${name}-slurm.json`,
+  ]);
   expect(slurm.code, slurm.stderr).toBe(0);
-  expect(readFileSync(join(dir, `${name}-slurm.json`), "utf8")).toBe(readFileSync(join(dir, `${name}-local.json`), "utf8"));
+  expect(readFileSync(join(dir, `${name}-slurm.json`), "utf8")).toBe(
+    readFileSync(join(dir, `${name}-local.json`), "utf8"),
+  );
 }
 
 function waitForJob(jobId: string): void {
@@ -83,13 +98,26 @@ describe("fits as a SLURM job array", () => {
     const broken = join(dir, "broken");
     writeFileSync(broken, "");
     const trainer = join(dir, "fragile.sh");
-    writeFileSync(trainer, `if [ -f ${broken} ]; then echo "cannot fit today" >&2; exit 2; fi\nexec sh ${join(root, "examples/majority.sh")}\n`);
+    writeFileSync(
+      trainer,
+      `if [ -f ${broken} ]; then echo "cannot fit today" >&2; exit 2; fi\nexec sh ${join(root, "examples/majority.sh")}\n`,
+    );
     chmodSync(trainer, 0o755);
     const extra = ["--trainer", `sh ${trainer}`];
     const tasks = join(dir, "manual-tasks");
     const submitted = await headroom([
-      "measure", ...design, ...extra, "--on", "slurm", "--tasks-dir", tasks, "--submit-only",
-      "--slurm-options", "--time=10 --job-name=headroom-test", "--out", "manual.json",
+      "measure",
+      ...design,
+      ...extra,
+      "--on",
+      "slurm",
+      "--tasks-dir",
+      tasks,
+      "--submit-only",
+      "--slurm-options",
+      "--time=10 --job-name=headroom-test",
+      "--out",
+      "manual.json",
     ]);
     expect(submitted.code, submitted.stderr).toBe(0);
     const jobId = submitted.stdout.trim();
@@ -112,7 +140,10 @@ describe("fits as a SLURM job array", () => {
 
     // After the fix, the printed line reruns the tasks; collect then writes the local run's curve.
     rmSync(broken);
-    const again = spawnSync("/bin/sh", ["-c", rerun.replace("sbatch ", "sbatch --parsable ")], { encoding: "utf8", cwd: dir });
+    const again = spawnSync("/bin/sh", ["-c", rerun.replace("sbatch ", "sbatch --parsable ")], {
+      encoding: "utf8",
+      cwd: dir,
+    });
     expect(again.status, again.stderr).toBe(0);
     waitForJob(again.stdout.trim().split(";")[0]);
     const collected = await headroom(["collect", tasks, "--out", "manual.json"]);
@@ -129,7 +160,18 @@ describe("--on slurm without a cluster", () => {
     const saved = process.env.PATH;
     process.env.PATH = "/nonexistent";
     try {
-      const argv = ["measure", iris, "--label", "class", "--on", "slurm", "--tasks-dir", join(dir, "none"), "--out", join(dir, "x.json")];
+      const argv = [
+        "measure",
+        iris,
+        "--label",
+        "class",
+        "--on",
+        "slurm",
+        "--tasks-dir",
+        join(dir, "none"),
+        "--out",
+        join(dir, "x.json"),
+      ];
       expect(await run(argv, c.io)).toBe(ExitCode.usage);
     } finally {
       process.env.PATH = saved;
@@ -142,13 +184,18 @@ describe("--on slurm without a cluster", () => {
   it("checks the placement options", async () => {
     const cases: [string[], string][] = [
       [["--on", "cloud"], "headroom: --on: unknown place 'cloud' (known: local, slurm)\n"],
-      [["--on", "slurm"], "headroom: --on slurm needs --tasks-dir naming a folder on a file system the cluster's nodes share\n"],
+      [
+        ["--on", "slurm"],
+        "headroom: --on slurm needs --tasks-dir naming a folder on a file system the cluster's nodes share\n",
+      ],
       [["--tasks-dir", "t"], "headroom: --tasks-dir is only used with --on slurm\n"],
       [["--submit-only"], "headroom: --submit-only is only used with --on slurm\n"],
     ];
     for (const [extra, expected] of cases) {
       const c = capture();
-      expect(await run(["measure", iris, "--label", "class", "--out", join(dir, "y.json"), ...extra], c.io)).toBe(ExitCode.usage);
+      expect(await run(["measure", iris, "--label", "class", "--out", join(dir, "y.json"), ...extra], c.io)).toBe(
+        ExitCode.usage,
+      );
       expect(c.stderr()).toBe(expected);
     }
   });
@@ -156,7 +203,9 @@ describe("--on slurm without a cluster", () => {
   it("collect names a folder without tasks", async () => {
     const c = capture();
     expect(await run(["collect", dir, "--out", join(dir, "z.json")], c.io)).toBe(ExitCode.usage);
-    expect(c.stderr()).toBe(`headroom: ${dir}: no tasks of a measurement here (no job.json written by headroom measure --on slurm)\n`);
+    expect(c.stderr()).toBe(
+      `headroom: ${dir}: no tasks of a measurement here (no job.json written by headroom measure --on slurm)\n`,
+    );
   });
 
   it("writes array element lists as sbatch reads them", () => {

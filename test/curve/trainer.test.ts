@@ -7,7 +7,16 @@
  * Data: Fisher's iris (fixtures/open-data/iris.csv, see its README). The trainers here are small
  * shell scripts (Debian's dash), so the tests start no Python.
  */
-import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import {
+  copyFileSync,
+  existsSync,
+  mkdirSync,
+  mkdtempSync,
+  readdirSync,
+  readFileSync,
+  rmSync,
+  writeFileSync,
+} from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -111,9 +120,7 @@ describe("trainer failures: one line naming the fit, the problem and the end of 
     const started = Date.now();
     const { code, stderr } = await measure(trainer("slow", "sleep 30"), "slow.json", ["--trainer-timeout", "0.5"]);
     expect(code).toBe(ExitCode.trainer);
-    expect(stderr).toBe(
-      `headroom: ${fit}: the trainer ran longer than --trainer-timeout 0.5 s and was stopped\n`,
-    );
+    expect(stderr).toBe(`headroom: ${fit}: the trainer ran longer than --trainer-timeout 0.5 s and was stopped\n`);
     // The shell's `sleep` child was stopped with it, not waited for.
     expect(Date.now() - started).toBeLessThan(10_000);
   });
@@ -159,9 +166,15 @@ describe("the protocol as a trainer sees it", () => {
     const header = irisLines[0];
     const seeds = new Set<string>();
     for (const fit of fits) {
-      const train = readFileSync(join(seen, fit, "train.csv"), "utf8").trim().split("\n");
-      const test = readFileSync(join(seen, fit, "test.csv"), "utf8").trim().split("\n");
-      const [label, task, seed, predictions] = readFileSync(join(seen, fit, "env"), "utf8").trim().split("\n");
+      const train = readFileSync(join(seen, fit, "train.csv"), "utf8")
+        .trim()
+        .split("\n");
+      const test = readFileSync(join(seen, fit, "test.csv"), "utf8")
+        .trim()
+        .split("\n");
+      const [label, task, seed, predictions] = readFileSync(join(seen, fit, "env"), "utf8")
+        .trim()
+        .split("\n");
       expect([label, task]).toEqual(["class", "classification"]);
       expect(seed).toMatch(/^\d+$/);
       seeds.add(seed);
@@ -204,7 +217,10 @@ describe("the protocol as a trainer sees it", () => {
     ].join("\n");
     const c = capture();
     const argv = ["measure", data, "--label", "y", "--task", "regression", "--repeats", "1", "--sizes", "10,30"];
-    const code = await run([...argv, "--trainer", trainer("mean", body), "--out", join(dir, "mean.json"), "--quiet"], c.io);
+    const code = await run(
+      [...argv, "--trainer", trainer("mean", body), "--out", join(dir, "mean.json"), "--quiet"],
+      c.io,
+    );
     expect(code, c.stderr()).toBe(ExitCode.ok);
     const curve = JSON.parse(readFileSync(join(dir, "mean.json"), "utf8"));
     expect(curve.task).toBe("regression");

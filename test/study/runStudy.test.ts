@@ -36,7 +36,9 @@ describe("runStudy", () => {
     expect(forecast.targetSize?.confidence).toBe(0.7);
   }, 60_000);
 
-  const clusterUp = /\b(idle|mix|alloc)\b/.test(spawnSync("sinfo", ["-h", "-o", "%t"], { encoding: "utf8" }).stdout ?? "");
+  const clusterUp = /\b(idle|mix|alloc)\b/.test(
+    spawnSync("sinfo", ["-h", "-o", "%t"], { encoding: "utf8" }).stdout ?? "",
+  );
 
   it("takes trainer, on, tasksDir and slurmOptions in its measure section", async () => {
     const dir = mkdtempSync(join(tmpdir(), "headroom-study-"));
@@ -45,10 +47,16 @@ describe("runStudy", () => {
     const write = (name: string, extra: object) => {
       const file = join(dir, name);
       const plan = { samplesPerRun: 30, costPerRun: 100, maxRuns: 2, valuePerPoint: 10 };
-      writeFileSync(file, JSON.stringify({ data: "iris.csv", label: "class", measure: { ...measure, ...extra }, plan }));
+      writeFileSync(
+        file,
+        JSON.stringify({ data: "iris.csv", label: "class", measure: { ...measure, ...extra }, plan }),
+      );
       return file;
     };
-    const local = await runStudy(write("local.json", { trainerTimeout: 60 }), { outDir: join(dir, "local"), workers: 2 });
+    const local = await runStudy(write("local.json", { trainerTimeout: 60 }), {
+      outDir: join(dir, "local"),
+      workers: 2,
+    });
     expect(local.curve.learner).toBe("trainer");
     expect(local.curve.trainer).toBe(measure.trainer);
     // The majority class of a stratified iris subsample scores about a third (one class of three).
@@ -57,6 +65,8 @@ describe("runStudy", () => {
     const slurm = { on: "slurm", tasksDir: "tasks", slurmOptions: "--time=10" };
     await runStudy(write("slurm.json", slurm), { outDir: join(dir, "slurm"), workers: 1 });
     expect(readFileSync(join(dir, "tasks", "job.json"), "utf8")).toContain('"slurmOptions": "--time=10"');
-    expect(readFileSync(join(dir, "slurm", "curve.json"), "utf8")).toBe(readFileSync(join(dir, "local", "curve.json"), "utf8"));
+    expect(readFileSync(join(dir, "slurm", "curve.json"), "utf8")).toBe(
+      readFileSync(join(dir, "local", "curve.json"), "utf8"),
+    );
   }, 120_000);
 });

@@ -25,6 +25,14 @@ import { readJsonFile, sha256OfFile, toJson, writeFileAtomic } from "../io/files
 import { message } from "../messages.js";
 import { packageRoot } from "../packageRoot.js";
 import { fitResultLength, runFitTask, type FitPlan, type FitTask } from "../curve/fitTask.js";
+import {
+  makeTrainerFolder,
+  readTrainerTable,
+  removeTrainerFolder,
+  runTrainerTask,
+  shellQuote,
+  TrainerLane,
+} from "../curve/trainer.js";
 import type { MeasureOptions, TaskRunner } from "../curve/measure.js";
 
 /** The measurement options that change the tasks, as kept in job.json (plain JSON). */
@@ -158,11 +166,6 @@ function headroomCommand(): string[] {
     return [process.execPath, "--import", loader, join(packageRoot, "src", "bin", "headroom.ts")];
   }
   return [process.execPath, fileURLToPath(new URL("../bin/headroom.js", import.meta.url))];
-}
-
-/** Quotes a word for sh. */
-export function shellQuote(word: string): string {
-  return /^[\w@%+=:,./-]+$/.test(word) ? word : `'${word.replace(/'/g, `'\\''`)}'`;
 }
 
 function batchScript(dir: string): string {
@@ -342,29 +345,22 @@ export async function runTaskElement(dir: string, element: number): Promise<void
   const first = element * job.tasksPerElement;
   const tasks = job.tasks.slice(first, first + job.tasksPerElement).map(loadTask);
   let failure: unknown;
-  let trainer:
-    | {
-        table: import("../curve/trainer.js").TrainerTable;
-        folder: string;
-        module: typeof import("../curve/trainer.js");
-      }
-    | undefined;
+  const trainer =
+    job.plan.trainer === undefined
+      ? undefined
+      : {
+          table: readTrainerTable(job.data.file, job.read.label),
+          folder: makeTrainerFolder(),
+          lane: new TrainerLane(),
+        };
   try {
-    if (job.plan.trainer !== undefined) {
-      const module = await import("../curve/trainer.js");
-      trainer = {
-        module,
-        table: module.readTrainerTable(job.data.file, job.read.label),
-        folder: module.makeTrainerFolder(),
-      };
-    }
     for (const task of tasks) {
       const failedFile = join(dir, "failed", `task-${task.index}.txt`);
       try {
         const scores =
           trainer === undefined
             ? runFitTask(data, job.plan, task)
-            : await trainer.module.runTrainerTask(data, trainer.table, job.plan, task, trainer.folder);
+            : await runTrainerTask(data, trainer.table, job.plan, task, trainer.folder, trainer.lane);
         const encoded = scores.map((s) => (Number.isFinite(s) ? s : String(s)));
         writeFileAtomic(
           join(dir, "results", `task-${task.index}.json`),
@@ -378,7 +374,10 @@ export async function runTaskElement(dir: string, element: number): Promise<void
       }
     }
   } finally {
-    if (trainer !== undefined) trainer.module.removeTrainerFolder(trainer.folder);
+    if (trainer !== undefined) {
+      trainer.lane.end();
+      removeTrainerFolder(trainer.folder);
+    }
   }
   if (failure !== undefined) throw failure;
 }

@@ -13,9 +13,9 @@
  * Each program runs in a process group of its own, so that a timeout or Ctrl-C stops the program and
  * everything it started (a shell's `python3 ...` child included).
  */
-import { spawn } from "node:child_process";
+import { spawn, type ChildProcessWithoutNullStreams } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
+import { constants, tmpdir } from "node:os";
 import { join } from "node:path";
 import { kill } from "node:process";
 import type { Dataset } from "../data/dataset.js";
@@ -83,6 +83,7 @@ export async function runTrainerTask(
   plan: FitPlan,
   task: FitTask,
   folder: string,
+  lane: TrainerLane,
   signal?: AbortSignal,
 ): Promise<number[]> {
   const trainer = plan.trainer!;
@@ -103,7 +104,6 @@ export async function runTrainerTask(
       writeFileSync(trainFile, linesOf(table.headerLine, table.trainLines, rows));
       const seed = new RandomStream(plan.seed, StreamPurpose.learner, task.repeat, task.fold, s).nextUint32();
       const env = {
-        ...process.env,
         HEADROOM_TRAIN: trainFile,
         HEADROOM_TEST: testFile,
         HEADROOM_PREDICTIONS: predictionsFile,
@@ -111,7 +111,7 @@ export async function runTrainerTask(
         HEADROOM_TASK: regression ? "regression" : "classification",
         HEADROOM_SEED: String(seed),
       };
-      const run = await runCommand(trainer.command, env, trainer.timeoutSeconds, signal);
+      const run = await lane.run(trainer.command, env, `${base}-size-${s}-stderr.txt`, trainer.timeoutSeconds, signal);
       if (signal?.aborted) throw new InterruptedError(message.interrupted(0, 0, undefined));
       const fail = (problem: string) => new TrainerError(message.trainerFit(fit, problem, stderrTail(run.stderr)));
       if (run.startError !== undefined) throw fail(message.trainerStartFailed(run.startError));
@@ -244,29 +244,35 @@ interface CommandRun {
   startError?: string;
 }
 
-/** Runs `command` through the shell in a process group of its own, keeping the end of its stderr. */
-function runCommand(
-  command: string,
-  env: NodeJS.ProcessEnv,
-  timeoutSeconds: number | undefined,
-  signal: AbortSignal | undefined,
-): Promise<CommandRun> {
-  return new Promise((resolve) => {
-    const child = spawn(command, { shell: true, env, stdio: ["ignore", "ignore", "pipe"], detached: true });
-    let stderr = "";
+/** Quotes a word for sh. */
+export function shellQuote(word: string): string {
+  return /^[\w@%+=:,./-]+$/.test(word) ? word : `'${word.replace(/'/g, `'\\''`)}'`;
+}
+
+/**
+ * Runs one lane's fits, one after another, through a shell of its own that reads them from its
+ * standard input: the shell, a small process, starts each program, where `child_process.spawn` from
+ * this process would fork all of Node's memory for every fit (the larger part of the per-fit cost
+ * `npm run bench:trainer` measures). Each fit runs as `sh -c CMD` in a subshell, with the protocol's
+ * variables exported, stdin and stdout from /dev/null and stderr to a file; the lane's shell then
+ * prints the exit status. The shell leads a process group of its own, so that a timeout or Ctrl-C
+ * stops it, the program and everything the program started; the next fit starts a new shell.
+ */
+export class TrainerLane {
+  private shell: ChildProcessWithoutNullStreams | undefined;
+  private output = "";
+  private onLine: ((line: string | undefined) => void) | undefined;
+
+  async run(
+    command: string,
+    variables: Record<string, string>,
+    stderrFile: string,
+    timeoutSeconds: number | undefined,
+    signal: AbortSignal | undefined,
+  ): Promise<CommandRun> {
+    const shell = this.shell ?? this.start();
     let timedOut = false;
-    let startError: string | undefined;
-    child.stderr.setEncoding("utf8");
-    child.stderr.on("data", (chunk: string) => {
-      stderr = (stderr + chunk).slice(-8192);
-    });
-    const stop = () => {
-      try {
-        if (child.pid !== undefined) kill(-child.pid, "SIGKILL");
-      } catch {
-        // The group has already ended.
-      }
-    };
+    const stop = () => this.stop();
     const timer =
       timeoutSeconds === undefined
         ? undefined
@@ -275,15 +281,76 @@ function runCommand(
             stop();
           }, timeoutSeconds * 1000);
     signal?.addEventListener("abort", stop, { once: true });
-    child.on("error", (error) => {
-      startError = error.message;
+    const exports = Object.entries(variables)
+      .map(([name, value]) => `${name}=${shellQuote(value)}`)
+      .join(" ");
+    const line = new Promise<string | undefined>((resolve) => (this.onLine = resolve));
+    shell.stdin.write(
+      `(export ${exports}; exec /bin/sh -c ${shellQuote(command)}) </dev/null >/dev/null 2>${shellQuote(stderrFile)}; echo "$?"\n`,
+    );
+    const status = await line;
+    if (timer !== undefined) clearTimeout(timer);
+    signal?.removeEventListener("abort", stop);
+    let stderr = "";
+    try {
+      stderr = readFileSync(stderrFile, "utf8").slice(-8192);
+      rmSync(stderrFile, { force: true });
+    } catch {
+      // No stderr file: the shell was stopped before the program started.
+    }
+    if (status === undefined) return { code: null, signal: "SIGKILL", stderr, timedOut };
+    const code = Number(status);
+    // A program killed by a signal has status 128 + the signal's number in the shell.
+    const byNumber = Object.entries(constants.signals).find(([, number]) => number === code - 128);
+    if (code > 128 && byNumber !== undefined) return { code: null, signal: byNumber[0], stderr, timedOut };
+    return { code, signal: null, stderr, timedOut };
+  }
+
+  private start(): ChildProcessWithoutNullStreams {
+    const shell = spawn("/bin/sh", ["-s"], { stdio: ["pipe", "pipe", "pipe"], detached: true });
+    this.shell = shell;
+    this.output = "";
+    shell.stdout.setEncoding("utf8");
+    shell.stdout.on("data", (chunk: string) => {
+      this.output += chunk;
+      const end = this.output.indexOf("\n");
+      if (end < 0) return;
+      const line = this.output.slice(0, end);
+      this.output = this.output.slice(end + 1);
+      this.deliver(line.trim());
     });
-    child.on("close", (code, killedBy) => {
-      if (timer !== undefined) clearTimeout(timer);
-      signal?.removeEventListener("abort", stop);
-      resolve({ code, signal: killedBy, stderr, timedOut, ...(startError === undefined ? {} : { startError }) });
+    // Writing to a shell that was just stopped fails; its close reports the fit.
+    shell.stdin.on("error", () => {});
+    shell.stderr.resume();
+    shell.on("close", () => {
+      if (this.shell === shell) this.shell = undefined;
+      this.deliver(undefined);
     });
-  });
+    return shell;
+  }
+
+  private deliver(line: string | undefined): void {
+    const onLine = this.onLine;
+    this.onLine = undefined;
+    onLine?.(line);
+  }
+
+  /** Stops the shell and the program it runs (the whole process group). */
+  stop(): void {
+    const pid = this.shell?.pid;
+    if (pid === undefined) return;
+    try {
+      kill(-pid, "SIGKILL");
+    } catch {
+      // The group has already ended.
+    }
+  }
+
+  /** Ends the shell after its last fit. */
+  end(): void {
+    this.shell?.stdin.end();
+    this.shell = undefined;
+  }
 }
 
 /**
@@ -311,11 +378,14 @@ export async function runTrainerTasks(
   const folder = makeTrainerFolder();
   let failure: { error: unknown } | undefined;
   let next = 0;
-  const lane = async () => {
+  const lanes: TrainerLane[] = [];
+  const runLane = async () => {
+    const lane = new TrainerLane();
+    lanes.push(lane);
     while (failure === undefined && !stop.signal.aborted && next < pending.length) {
       const task = pending[next++];
       try {
-        const scores = await runTrainerTask(data, table, plan, task, folder, stop.signal);
+        const scores = await runTrainerTask(data, table, plan, task, folder, lane, stop.signal);
         results[task.index] = scores;
         options.onTaskResult?.(task.index, scores);
         done++;
@@ -328,11 +398,12 @@ export async function runTrainerTasks(
   };
   try {
     if (options.signal?.aborted) stop.abort();
-    await Promise.all(Array.from({ length: Math.max(1, Math.min(options.workers, pending.length)) }, lane));
+    await Promise.all(Array.from({ length: Math.max(1, Math.min(options.workers, pending.length)) }, runLane));
     if (options.signal?.aborted) throw new InterruptedError(message.interrupted(done, tasks.length, undefined));
     if (failure !== undefined) throw failure.error;
     return results;
   } finally {
+    for (const lane of lanes) lane.end();
     options.signal?.removeEventListener("abort", onAbort);
     removeTrainerFolder(folder);
   }

@@ -16,6 +16,10 @@ export const ExitCode = {
   internal: 70,
   /** An output could not be written. */
   io: 74,
+  /** Work handed elsewhere (a SLURM job array) is not all back yet: collect again later. */
+  incomplete: 75,
+  /** The user's own trainer (`--trainer`) failed a fit or broke the file protocol. */
+  trainer: 76,
   /** Stopped by Ctrl-C (SIGINT): 128 + the signal's number, as shells report it. */
   interrupted: 130,
   /** Stopped by SIGTERM (a scheduler's or service manager's stop): 128 + 15. */
@@ -112,5 +116,19 @@ export class OutputError extends HeadroomError {
 export class InterruptedError extends HeadroomError {
   constructor(text: ErrorText, subject?: ErrorSubject) {
     super(text, ExitCode.interrupted, subject);
+  }
+}
+
+/** A fit run by the user's own trainer program failed (exit code, missing or malformed predictions). */
+export class TrainerError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.trainer);
+  }
+}
+
+/** Some tasks handed to a cluster have no result yet (still running, failed or never run). */
+export class IncompleteError extends HeadroomError {
+  constructor(message: string) {
+    super(message, ExitCode.incomplete);
   }
 }

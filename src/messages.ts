@@ -137,6 +137,54 @@ export const message = {
     checkpoint === undefined
       ? `interrupted after ${done} of ${total} fits`
       : `interrupted after ${done} of ${total} fits (kept in ${checkpoint}); rerun the same command with --resume to continue`,
+  trainerFit: (fit: FitName, problem: string, stderrTail: string) =>
+    `--trainer failed on fit (repeat ${fit.repeat + 1}, fold ${fit.fold + 1}, size ${fit.size}): ${problem}${stderrTail === "" ? "" : `; its stderr ended: ${stderrTail}`}`,
+  trainerExit: (code: number | null, signal: string | null) =>
+    code !== null ? `the trainer exited with code ${code}` : `the trainer was stopped by signal ${signal}`,
+  trainerStartFailed: (reason: string) => `the trainer could not be started (${reason})`,
+  trainerTimeout: (seconds: number) => `the trainer ran longer than --trainer-timeout ${seconds} s and was stopped`,
+  trainerNoPredictions: (file: string) =>
+    `the trainer wrote no predictions file (expected ${file}, HEADROOM_PREDICTIONS)`,
+  trainerRowCount: (expected: number, found: number) =>
+    `the predictions file has ${found} row${found === 1 ? "" : "s"}, but the test file has ${expected}`,
+  trainerUnknownClass: (line: number, name: string, known: string[]) =>
+    `predictions line ${line}: '${clip(name)}' is not a class of the label (classes: ${preview(known)})`,
+  trainerUnknownColumn: (name: string, known: string[]) =>
+    `predictions header: column '${clip(name)}' is neither 'prediction' nor a class of the label (classes: ${preview(known)})`,
+  trainerRegressionColumn: (header: string[]) =>
+    `predictions header: a numeric target needs one column 'prediction' (found: ${preview(header)})`,
+  trainerNotNumber: (line: number, column: string, text: string) =>
+    `predictions line ${line}, column '${clip(column)}': '${clip(text)}' is not a number`,
+  trainerBadProbabilities: (line: number) =>
+    `predictions line ${line}: class probabilities must be at least 0 with a positive sum`,
+  trainerBadPredictions: (detail: string) => `the predictions file is not CSV (${detail})`,
+  trainerLabelsOnly: (metric: string, accepted: string[]) =>
+    `--metric ${metric} needs class probabilities, but the trainer wrote only a 'prediction' column of class names; write one column per class holding probabilities, or choose --metric ${accepted.join(", ")}`,
+  trainerRenormalised: (fits: number, total: number) =>
+    `the trainer's class probabilities did not sum to 1 (within 1e-6) in ${fits} of ${total} fits; they were renormalised`,
+  trainerWithLearner: (option: string) =>
+    `${option} cannot be used with --trainer: the trainer program is the model (set its settings inside it)`,
+  badTimeout: (text: string) => `--trainer-timeout: '${clip(text)}' is not a positive number of seconds`,
+  unknownPlace: (text: string) => `--on: unknown place '${clip(text)}' (known: local, slurm)`,
+  slurmNeedsFolder: () => `--on slurm needs --tasks-dir naming a folder on a file system the cluster's nodes share`,
+  slurmOnlyOption: (option: string) => `${option} is only used with --on slurm`,
+  sbatchMissing: () =>
+    `--on slurm: sbatch is not on PATH; run headroom on a SLURM login node (or load the slurm module) first`,
+  sbatchFailed: (detail: string) =>
+    `--on slurm: sbatch refused the job: ${detail.replace(/\s+/g, " ").trim().slice(0, 300)}`,
+  tasksDirInUse: (dir: string) =>
+    `${dir}: this folder already holds tasks of a measurement; gather them with headroom collect, or choose an empty folder`,
+  notTasksDir: (dir: string) =>
+    `${dir}: no tasks of a measurement here (no job.json written by headroom measure --on slurm)`,
+  tasksDataChanged: (dir: string, file: string) =>
+    `${dir}: the data file ${file} changed since the tasks were written; restore it, or measure again into a new folder`,
+  tasksIncomplete: (dir: string, done: number, total: number, failed: string[], rerun: string) =>
+    `${dir}: ${done} of ${total} tasks are in${failed.length > 0 ? `; failed: ${failed.join("; ")}` : ""}; when the job has ended, rerun the rest with: ${rerun}`,
+  slurmDetached: (jobId: string, dir: string, out: string) =>
+    `stopped following job ${jobId}, which runs on; gather its results later with: headroom collect ${dir} --out ${out} (or cancel it with: scancel ${jobId})`,
+  taskFailedLine: (task: number, text: string) => `task ${task}: ${text}`,
+  taskElement: (text: string, elements: number) =>
+    `run-task --element: '${clip(text)}' is not an array element (0 to ${elements - 1})`,
   outputUnder: (file: string, parent: string) => `${file}: cannot be written (${parent} is a file, not a folder)`,
   // The forecast's options (subject: the option).
   betweenZeroAndOne: (value: number) => `must be between 0 and 1 (exclusive), not ${value}`,
@@ -251,6 +299,13 @@ export const message = {
   notCategoryIndex: (role: string, row: number, column: number, value: number, count: number) =>
     `encoding: ${role} row ${row + 1}, feature column ${column + 1} holds ${value}, not a category index 0 .. ${count - 1}`,
 } as const;
+
+/** A fit of a (repeat, fold) task at one training size, counted from 0 (messages count from 1). */
+export interface FitName {
+  repeat: number;
+  fold: number;
+  size: number;
+}
 
 function clip(text: string): string {
   const oneLine = text.replace(/[\r\n\t]/g, " ");

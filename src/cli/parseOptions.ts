@@ -41,3 +41,11 @@ export function optionalSizeList(option: string, text: string | undefined): numb
     throw new UsageError(message.optionProblem(option, message.badList(text)));
   return [...new Set(parts.map(Number))].sort((a, b) => a - b);
 }
+
+/** A positive number of seconds (`--trainer-timeout`), or undefined when not given. */
+export function optionalSeconds(text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  const value = Number(text.trim());
+  if (text.trim() === "" || !(value > 0) || !Number.isFinite(value)) throw new UsageError(message.badTimeout(text));
+  return value;
+}

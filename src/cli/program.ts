@@ -5,6 +5,7 @@
 import { Command, CommanderError } from "commander";
 import { ExitCode, HeadroomError, type ExitCodeValue, type OptionNamer } from "../errors.js";
 import { toolVersion } from "../version.js";
+import { collectCommand, runTaskCommand } from "./commands/collect.js";
 import { demoCommand } from "./commands/demo.js";
 import { forecastCommand } from "./commands/forecast.js";
 import { measureCommand } from "./commands/measure.js";
@@ -28,6 +29,7 @@ export function buildProgram(io: CliIo, argv: readonly string[]): Command {
     });
   for (const command of [
     measureCommand(io),
+    collectCommand(io),
     forecastCommand(io),
     weighCommand(io),
     reportCommand(io, commandLine),
@@ -36,6 +38,12 @@ export function buildProgram(io: CliIo, argv: readonly string[]): Command {
   ]) {
     program.addCommand(command.exitOverride().configureOutput({ writeOut: (t) => io.stdout(t), writeErr: () => {} }));
   }
+  program.addCommand(
+    runTaskCommand()
+      .exitOverride()
+      .configureOutput({ writeOut: (t) => io.stdout(t), writeErr: () => {} }),
+    { hidden: true },
+  );
   return program;
 }
 

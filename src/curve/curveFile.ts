@@ -30,7 +30,10 @@ export interface CurveFile {
   rows: number;
   /** Classes (classification) or a numeric target (regression); absent in older files: classification. */
   task?: "classification" | "regression";
+  /** The learner's name; "trainer" when the user's own program fitted (`--trainer`). */
   learner?: string;
+  /** The shell command of the user's own trainer, when it fitted. */
+  trainer?: string;
   /** Folds per repeat (for leave-one-out designs, the rows or the runs). */
   folds?: number;
   repeats?: number;

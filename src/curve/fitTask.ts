@@ -51,6 +51,11 @@ export interface FitPlan {
   tune?: boolean;
   /** Whether inner folds keep runs whole (the outer folds do). @default false */
   groupedInner?: boolean;
+  /**
+   * Fit with the user's own program instead of `learner` (see trainer.ts): the shell command, and
+   * the seconds after which a fit is stopped.
+   */
+  trainer?: { command: string; timeoutSeconds?: number };
 }
 
 /** Folds of the inner cross-validation that tunes a learner (3 is common practice for small data). */
@@ -59,10 +64,11 @@ export const innerFolds = 3;
 /**
  * Numbers one task returns: one score per training size; with tuning, followed by the index into the
  * learner's `tuningGrid` of the settings chosen at each size (−1: the learner's defaults, when no
- * inner fold could be scored).
+ * inner fold could be scored); with a trainer, followed by the number of its fits whose class
+ * probabilities were renormalised.
  */
 export function fitResultLength(plan: FitPlan): number {
-  return plan.trainingSizes.length * (plan.tune ? 2 : 1);
+  return plan.trainingSizes.length * (plan.tune ? 2 : 1) + (plan.trainer ? 1 : 0);
 }
 
 type AnyLearner = Learner | RegressionLearner;

@@ -11,7 +11,9 @@
  *    can be drawn from every fold's training pool;
  * 5. order each training pool so that its prefixes are nested subsamples (stratified for classes,
  *    whole runs with `byRuns`), leaving out the folds on which the metric is undefined;
- * 6. run one fit task per (repeat, fold), on the main thread or worker threads;
+ * 6. run one fit task per (repeat, fold): a plain-data unit that runs the same on the main thread, a
+ *    worker thread, beside a child process running the user's trainer, or on a cluster node (the
+ *    `runTasks` option; see cluster/slurm.ts), results gathered in task order;
  * 7. assemble curve.json, with scores in repeat-major order.
  */
 import type { Dataset } from "../data/dataset.js";
@@ -34,7 +36,7 @@ import {
   type FitPlan,
   type FitTask,
 } from "./fitTask.js";
-import { runFitTasks } from "./fitPool.js";
+import { runFitTasks, type PoolOptions } from "./fitPool.js";
 import { findMetric, metricRangeFor, metrics } from "./metrics.js";
 import { geometricSizes, smallestSensibleRegressionSize, smallestSensibleSize } from "./sizes.js";
 
@@ -85,12 +87,30 @@ export interface MeasureOptions {
   checkpoint?: CheckpointOptions;
   /** Aborting it stops the measurement between fits with an InterruptedError. */
   signal?: AbortSignal;
+  /**
+   * A shell command that fits and predicts instead of a built-in learner (see curve/trainer.ts); the
+   * `file` given to {@link measureCurve} must then be the CSV the data set was read from.
+   */
+  trainer?: string;
+  /** Seconds after which a trainer's fit is stopped, as a failure. @default no limit */
+  trainerTimeout?: number;
+  /**
+   * Runs the fit tasks instead of this process (threads, or trainer processes), e.g. as a SLURM job
+   * array (cluster/slurm.ts). It must return each task's numbers, in task order.
+   */
+  runTasks?: TaskRunner;
 }
 
+/** Runs a measurement's fit tasks somewhere and returns their numbers in task order. */
+export type TaskRunner = (data: Dataset, plan: FitPlan, tasks: FitTask[], options: PoolOptions) => Promise<number[][]>;
+
 export type ResolvedMeasureOptions = Required<
-  Omit<MeasureOptions, "trainingSizes" | "onProgress" | "checkpoint" | "signal">
+  Omit<
+    MeasureOptions,
+    "trainingSizes" | "onProgress" | "checkpoint" | "signal" | "trainer" | "trainerTimeout" | "runTasks"
+  >
 > &
-  Pick<MeasureOptions, "trainingSizes" | "onProgress">;
+  Pick<MeasureOptions, "trainingSizes" | "onProgress" | "trainer" | "trainerTimeout">;
 
 /**
  * Fills in defaults and checks option values. The task comes from `task`, else from the learner or
@@ -120,7 +140,18 @@ export function resolveMeasureOptions(
     byRuns: options.byRuns ?? false,
     workers: options.workers ?? 1,
     onProgress: options.onProgress,
+    trainer: options.trainer,
+    trainerTimeout: options.trainerTimeout,
   };
+  if (resolved.trainer !== undefined) {
+    if (options.learner !== undefined) throw new UsageError(message.trainerWithLearner("--learner"));
+    if (resolved.tune) throw new UsageError(message.trainerWithLearner("--tune"));
+  }
+  if (
+    resolved.trainerTimeout !== undefined &&
+    !(resolved.trainerTimeout > 0 && Number.isFinite(resolved.trainerTimeout))
+  )
+    throw new UsageError(message.badTimeout(String(resolved.trainerTimeout)));
   if (resolved.folds !== "loo" && (!Number.isInteger(resolved.folds) || resolved.folds < 2))
     throw new UsageError(message.badFolds(String(resolved.folds)), { option: "folds" });
   if (!Number.isInteger(resolved.repeats) || resolved.repeats < 1)
@@ -250,23 +281,45 @@ export async function measureCurve(
     task: o.task,
     tune: grid !== undefined,
     groupedInner: design.grouped,
+    ...(o.trainer === undefined
+      ? {}
+      : {
+          trainer: {
+            command: o.trainer,
+            ...(o.trainerTimeout === undefined ? {} : { timeoutSeconds: o.trainerTimeout }),
+          },
+        }),
   };
-  // What a checkpoint must match to be resumed: the data, every option that changes a score, the version.
-  const { workers: _workers, onProgress: _onProgress, ...measurement } = o;
+  // What a checkpoint must match to be resumed: the data, every option that changes a score, the
+  // version. A trainer's timeout changes no score, so a run stopped by it may resume with another.
+  const { workers: _workers, onProgress: _onProgress, trainerTimeout: _timeout, ...measurement } = o;
   const identity = { tool: toolVersion, data: datasetDigest(data), provenance, ...measurement, trainingSizes };
+  const runTasks: TaskRunner =
+    options.runTasks ??
+    (plan.trainer === undefined
+      ? runFitTasks
+      : async (data, plan, tasks, pool) => {
+          // Imported only for a trainer; the data file's cells are read again, as the trainer's files need them.
+          const { readTrainerTable, runTrainerTasks } = await import("./trainer.js");
+          return runTrainerTasks(data, readTrainerTable(file, provenance.label!), plan, tasks, pool);
+        });
   const scoresByTask = await runWithCheckpoint(
     options.checkpoint,
     identity,
     tasks.length,
     fitResultLength(plan),
     (hooks) =>
-      runFitTasks(data, plan, tasks, {
+      runTasks(data, plan, tasks, {
         workers: o.workers,
         onTaskDone: o.onProgress,
         signal: options.signal,
         ...hooks,
       }),
   );
+  if (plan.trainer !== undefined) {
+    const renormalised = scoresByTask.reduce((sum, scores) => sum + scores[scores.length - 1], 0);
+    if (renormalised > 0) warnings.push(message.trainerRenormalised(renormalised, tasks.length * trainingSizes.length));
+  }
 
   // 7. assemble
   const range = metricRangeFor(metric, classCount);
@@ -279,7 +332,8 @@ export async function measureCurve(
     ...(range ? { metricRange: range } : {}),
     rows: data.rows,
     task: o.task,
-    learner: o.learner,
+    learner: o.trainer === undefined ? o.learner : "trainer",
+    ...(o.trainer === undefined ? {} : { trainer: o.trainer }),
     folds: design.folds,
     repeats: o.repeats,
     seed: o.seed,

@@ -34,6 +34,11 @@ export interface ClassificationMetric extends MetricBase {
   /** The range for a data set with this many classes, when narrower than `range` (Brier score). */
   rangeFor?(classCount: number): [number, number] | undefined;
   /**
+   * Whether the score reads the probabilities themselves, not only the most probable class (so a
+   * trainer that writes class names only cannot be scored by it).
+   */
+  readonly readsProbabilities?: boolean;
+  /**
    * Why the metric is undefined on these held-out labels, or undefined when it is defined.
    * @param labels true class of each held-out row
    */
@@ -150,6 +155,7 @@ function binaryAuc(positive: Uint8Array, scores: Float64Array): number {
 export const rocAuc: ClassificationMetric = {
   task: "classification",
   name: "roc_auc",
+  readsProbabilities: true,
   label: "ROC AUC",
   higherIsBetter: true,
   range: [0, 1],
@@ -179,6 +185,7 @@ export const rocAuc: ClassificationMetric = {
 export const logLoss: ClassificationMetric = {
   task: "classification",
   name: "log_loss",
+  readsProbabilities: true,
   label: "log loss",
   higherIsBetter: false,
   score(labels, probabilities, classCount) {
@@ -205,6 +212,7 @@ export const logLoss: ClassificationMetric = {
 export const brier: ClassificationMetric = {
   task: "classification",
   name: "brier",
+  readsProbabilities: true,
   label: "Brier score",
   higherIsBetter: false,
   range: [0, 2],

@@ -27,6 +27,16 @@ export const studySchema = z.strictObject({
       tune: z.boolean().optional(),
       /** Measure against whole runs of `group` (sizes in runs). */
       byRuns: z.boolean().optional(),
+      /** Shell command of the user's own program that fits and predicts (instead of `learner`). */
+      trainer: z.string().min(1).optional(),
+      /** Seconds after which a trainer's fit is stopped, as a failure. */
+      trainerTimeout: z.number().positive().optional(),
+      /** Where the fits run: "local" (default) or "slurm" (one job array; needs `tasksDir`). */
+      on: z.enum(["local", "slurm"]).optional(),
+      /** With `on: "slurm"`: folder the cluster's nodes share, relative to the study file. */
+      tasksDir: z.string().min(1).optional(),
+      /** With `on: "slurm"`: sbatch options as typed on a command line. */
+      slurmOptions: z.string().optional(),
     })
     .default({}),
   forecast: z

@@ -4,7 +4,7 @@ import { checkOutputPath, toJson, writeFileAtomic } from "../../io/files.js";
 import { checkpointFileFor, removeCheckpoint } from "../../curve/checkpoint.js";
 import type { CliIo } from "../io.js";
 import { progressBar } from "../progress.js";
-import { optionalFolds, optionalInteger, optionalSizeList } from "../parseOptions.js";
+import { optionalFolds, optionalInteger, optionalSeconds, optionalSizeList } from "../parseOptions.js";
 import { availableParallelism } from "node:os";
 
 export function measureCommand(io: CliIo): Command {
@@ -26,7 +26,13 @@ export function measureCommand(io: CliIo): Command {
     .option("--repeats <r>", "repeats of the k-fold with fresh folds (default 10)")
     .option("--sizes <list>", "training sizes, e.g. 20,40,80 (default: 8 geometric sizes up to the whole pool)")
     .option("--seed <s>", "random seed (default 0)")
-    .option("--workers <w>", "most threads to fit on, started when worth it (default: the number of cores)")
+    .option("--workers <w>", "most threads (or trainer processes) to fit on at once (default: the number of cores)")
+    .option("--trainer <command>", "shell command of your own program that fits and predicts (see examples/README.md)")
+    .option("--trainer-timeout <seconds>", "stop a trainer's fit that runs longer, as a failure")
+    .option("--on <place>", "where the fits run: local (default) or slurm (one job array)")
+    .option("--tasks-dir <dir>", "with --on slurm: folder the cluster's nodes share, for the tasks and results")
+    .option("--slurm-options <options>", "with --on slurm: sbatch options, e.g. '--partition=short --time=1:00:00'")
+    .option("--submit-only", "with --on slurm: print the job id and exit; gather later with headroom collect")
     .option("--quiet", "draw no progress bar")
     .option("--resume", "continue an interrupted run from its checkpoint (<out>.checkpoint.jsonl)")
     .requiredOption("--out <file>", "where to write curve.json")
@@ -37,7 +43,15 @@ export function measureCommand(io: CliIo): Command {
       const out = options.out as string;
       checkOutputPath(out, [data]);
       const checkpoint = checkpointFileFor(out);
+      const on = options.on as string | undefined;
       const curve = await measureFile(data, {
+        on,
+        tasksDir: options.tasksDir as string | undefined,
+        slurmOptions: options.slurmOptions as string | undefined,
+        submitOnly: options.submitOnly === true,
+        out,
+        trainer: options.trainer as string | undefined,
+        trainerTimeout: optionalSeconds(options.trainerTimeout as string | undefined),
         onProgress: progress.onProgress,
         label: options.label as string,
         group: options.group as string | undefined,
@@ -54,7 +68,19 @@ export function measureCommand(io: CliIo): Command {
         workers: optionalInteger("--workers", options.workers as string | undefined, 1) ?? availableParallelism(),
         checkpoint: { file: checkpoint, resume: options.resume === true },
         signal: io.signal,
-      }).finally(() => progress.stop());
+      })
+        .catch((error: unknown) => {
+          if (!(error instanceof Error) || error.name !== "JobSubmitted") throw error;
+          const jobId = (error as Error & { jobId: string }).jobId;
+          io.stdout(`${jobId}\n`);
+          if (!options.quiet)
+            io.stderr(
+              `submitted job ${jobId}; once it has ended, gather the curve with: headroom collect ${options.tasksDir as string} --out ${out}\n`,
+            );
+          return undefined;
+        })
+        .finally(() => progress.stop());
+      if (curve === undefined) return;
       writeFileAtomic(out, toJson(curve), [data]);
       removeCheckpoint(checkpoint);
       if (!options.quiet) {

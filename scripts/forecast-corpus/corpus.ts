@@ -13,8 +13,16 @@ export interface CorpusDataSet {
   learners: string[];
 }
 
-const classification = (name: string): CorpusDataSet => ({ name, task: "classification", learners: ["logistic", "forest"] });
-const regression = (name: string): CorpusDataSet => ({ name, task: "regression", learners: ["ridge", "knn-regression"] });
+const classification = (name: string): CorpusDataSet => ({
+  name,
+  task: "classification",
+  learners: ["logistic", "forest"],
+});
+const regression = (name: string): CorpusDataSet => ({
+  name,
+  task: "regression",
+  learners: ["ridge", "knn-regression"],
+});
 
 export const corpusDataSets: CorpusDataSet[] = [
   ...[

@@ -73,7 +73,13 @@ function order(data: Dataset, random: RandomStream): Int32Array {
   return data.targets ? nestedRandomOrder(all, random) : nestedStratifiedOrder(all, data.labels, random);
 }
 
-function heldOutScore(train: Dataset, test: Dataset, learnerName: string, metricName: string, random: RandomStream): number {
+function heldOutScore(
+  train: Dataset,
+  test: Dataset,
+  learnerName: string,
+  metricName: string,
+  random: RandomStream,
+): number {
   const columns = train.featureNames.length;
   if (train.targets) {
     const model = createRegressionLearner(learnerName)!.fit(
@@ -87,7 +93,14 @@ function heldOutScore(train: Dataset, test: Dataset, learnerName: string, metric
   }
   const classCount = train.classNames.length;
   const model = createLearner(learnerName)!.fit(
-    { features: train.features, rows: train.rows, columns, labels: train.labels, classCount, categories: train.categories },
+    {
+      features: train.features,
+      rows: train.rows,
+      columns,
+      labels: train.labels,
+      classCount,
+      categories: train.categories,
+    },
     random,
   );
   return (findMetric(metricName) as ClassificationMetric).score(
@@ -129,7 +142,13 @@ for (const spec of corpusDataSets) {
       for (let d = 0; d < draws; d++) {
         const rows = order(data, new RandomStream(stream.truthOrder, n, d));
         scores.push(
-          heldOutScore(subset(data, rows.subarray(0, n)), subset(data, rows.subarray(n)), learner, metric, new RandomStream(stream.truthFit, n, d)),
+          heldOutScore(
+            subset(data, rows.subarray(0, n)),
+            subset(data, rows.subarray(n)),
+            learner,
+            metric,
+            new RandomStream(stream.truthFit, n, d),
+          ),
         );
       }
       const m = mean(scores);
@@ -147,7 +166,11 @@ for (const spec of corpusDataSets) {
           if (regression || Math.min(...counts) >= 5) rows = candidate;
         }
         if (rows === undefined) continue;
-        const curve: CurveFile = await measureCurve(subset(data, rows), `${spec.name}-pilot`, { seed: draw, learner, metric });
+        const curve: CurveFile = await measureCurve(subset(data, rows), `${spec.name}-pilot`, {
+          seed: draw,
+          learner,
+          metric,
+        });
         curve.points = curve.points.map((p) => ({ ...p, scores: p.scores.map(round) }));
         delete curve.source;
         pilotCurves.push({ size, draw, curve });
@@ -166,6 +189,8 @@ for (const spec of corpusDataSets) {
     };
     writeFileSync(`${file}.partial`, gzipSync(JSON.stringify(record), { level: 9 }));
     renameSync(`${file}.partial`, file);
-    console.log(`${spec.name} ${learner}: ${pilotCurves.length} pilots, ${truth.length} truth sizes, ${((performance.now() - started) / 1000).toFixed(0)} s`);
+    console.log(
+      `${spec.name} ${learner}: ${pilotCurves.length} pilots, ${truth.length} truth sizes, ${((performance.now() - started) / 1000).toFixed(0)} s`,
+    );
   }
 }

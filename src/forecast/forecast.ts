@@ -9,7 +9,9 @@ import { UsageError } from "../errors.js";
 import { curveFamilies, findCurveFamily, type CurveFamily } from "../fit/families.js";
 import { message } from "../messages.js";
 import { assessFamilies, type AssessedFamily } from "./backtest.js";
-import { drawCurves, drawnValue, measuredRange } from "./drawCurves.js";
+import { drawCurves, drawnValue, measuredRange, type DrawnCurve } from "./drawCurves.js";
+import { shippedCalibration, type Continuation, type GainCalibration } from "./gainCorrection.js";
+import { bestScore, findMetric } from "../curve/metrics.js";
 import type { BandPoint, ForecastFile, Projection } from "./forecastFile.js";
 import { forecastWarnings } from "./forecastWarnings.js";
 import { measuredCurve } from "./measuredCurve.js";
@@ -61,6 +63,13 @@ export interface ForecastOptions {
    * @default the curve's rows (a test set as large as today's data set), else its largest size
    */
   testSize?: number;
+  /**
+   * The continuation learned from the corpus of measured curves (`gainCorrection.ts`); the corpus
+   * evaluation passes one learned without the data set it forecasts; null turns it off (each family
+   * extrapolates by its own formula, as with `family`).
+   * @default the shipped calibration
+   */
+  calibration?: GainCalibration | null;
 }
 
 export interface ResolvedForecastOptions {
@@ -72,6 +81,7 @@ export interface ResolvedForecastOptions {
   target: number | undefined;
   confidence: number;
   testSize: number;
+  calibration: GainCalibration | null;
 }
 
 /** Multiples of the data set's rows projected to by default. */
@@ -131,7 +141,9 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
   if (!(Number.isInteger(testSize) && testSize >= 1)) {
     throw new UsageError(`forecast: test size must be a whole number of at least 1, not ${testSize}`);
   }
-  return { at, level, seed, draws, family, target, confidence, testSize };
+  const calibration =
+    family !== undefined ? null : options.calibration === undefined ? shippedCalibration : options.calibration;
+  return { at, level, seed, draws, family, target, confidence, testSize, calibration };
 }
 
 /** The curve family named by `--family`; throws UsageError naming the known ones. */
@@ -193,16 +205,41 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const largestMeasured = summaries[summaries.length - 1].trainingSize;
 
   // 2. Fit and weigh the families.
-  const assessment = assessFamilies(measured, resolved.family, resolved.seed);
+  const calibration = resolved.calibration;
+  const assessment = assessFamilies(measured, resolved.family, resolved.seed, calibration?.spread ?? 1);
   const families = assessment.families;
+  const metric = findMetric(curve.metric);
+  const best = metric === undefined ? undefined : bestScore(metric, curve.metricRange);
+  const continuation: Continuation | null =
+    calibration === null
+      ? null
+      : {
+          ownWeight: calibration.ownWeight,
+          chordWeight: calibration.chordWeight,
+          slopeWeight: calibration.slopeWeight,
+          headroomWeight: calibration.headroomWeight,
+          smallestSize: smallestMeasured,
+          best: best === undefined ? null : sign * best,
+        };
+  // Each family's point fit as a draw with no shift or extrapolation error, so that the expected
+  // score and the draws are evaluated by the same function.
+  const pointCurves: DrawnCurve[] = families.map((f) => ({
+    family: f.family,
+    parameters: f.fit.parameters,
+    shift: 0,
+    extrapolation: 0,
+    continuation,
+  }));
   const expectedOriented = (size: number): number =>
-    clampOriented(families.reduce((sum, f) => sum + f.weight * f.family.model(size, f.fit.parameters), 0));
+    clampOriented(
+      families.reduce((sum, f, i) => sum + f.weight * drawnValue(pointCurves[i], size, largestMeasured), 0),
+    );
 
   // 3. The shift for which samples were collected.
   const shift = sampleShift(curve, measured);
 
   // 4. Draws.
-  const drawn = drawCurves(measured, families, shift.standardDeviation, resolved);
+  const drawn = drawCurves(measured, families, shift.standardDeviation, resolved, continuation);
   const drawsAt = (size: number): number[] => drawn.curves.map((c) => drawnValue(c, size, largestMeasured, range));
 
   // 5. Project.
@@ -305,6 +342,17 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
     };
   }
   if (answer !== undefined) forecast.targetSize = answer;
+  if (continuation !== null && calibration !== null) {
+    forecast.continuation = {
+      ownWeight: continuation.ownWeight,
+      chordWeight: continuation.chordWeight,
+      slopeWeight: continuation.slopeWeight,
+      headroomWeight: continuation.headroomWeight,
+      spread: calibration.spread,
+      smallestSize: continuation.smallestSize,
+      best: continuation.best === null ? null : sign * continuation.best + 0,
+    };
+  }
   if (curve.metricRange !== undefined) forecast.metricRange = curve.metricRange;
   if (Number.isFinite(curve.rows) && curve.rows > 0) forecast.rows = curve.rows;
   return forecast;

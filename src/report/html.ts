@@ -17,6 +17,7 @@
  *   forbids every outside request; as the policy allows no `eval`, vega-embed runs with its
  *   expression interpreter (`ast: true`).
  */
+import { learnedForecastText } from "./forecastMethodText.js";
 import type { ForecastFile, Projection } from "../forecast/forecastFile.js";
 import { curveFamilies } from "../fit/families.js";
 import type { DecisionFile, DecisionRow } from "../weigh/decisionFile.js";
@@ -883,6 +884,9 @@ function methodsSection(input: ReportInput, info: MetricInfo): string {
     ["Measurement", measurement.join(" ")],
     ["Curve families and fitting", fitting.join(" ")],
     ["Backtest", backtestText],
+    ...(learnedForecastText(forecast) !== undefined
+      ? [["What the forecast learned from", learnedForecastText(forecast) as string]]
+      : []),
     ["Uncertainty", uncertainty.join(" ")],
     ...(weighing.length > 0 ? [["Weighing the runs", weighing.join(" ")]] : []),
     [

@@ -197,9 +197,15 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const measured = measuredCurve(curve);
   const resolved = resolveForecastOptions(curve, options);
   const { sign, summaries } = measured;
-  const range = measuredRange(measured);
+  const metric = findMetric(curve.metric);
+  const best = metric === undefined ? undefined : bestScore(metric, curve.metricRange);
+  // A metric without a finite range still has a best value no score passes (R² 1, an error 0).
+  const range: [number, number] | undefined =
+    measuredRange(measured) ?? (best === undefined ? undefined : [-Infinity, sign * best + 0]);
   const clampOriented = (value: number): number =>
     range === undefined ? value : Math.min(range[1], Math.max(range[0], value));
+  const scoreRange: [number, number] | undefined =
+    range === undefined ? undefined : sign > 0 ? [range[0], range[1]] : [-range[1] + 0, -range[0] + 0];
   const toScore = (oriented: number): number => sign * oriented + 0;
   const smallestMeasured = summaries[0].trainingSize;
   const largestMeasured = summaries[summaries.length - 1].trainingSize;
@@ -208,8 +214,6 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const calibration = resolved.calibration;
   const assessment = assessFamilies(measured, resolved.family, resolved.seed, calibration?.spread ?? 1);
   const families = assessment.families;
-  const metric = findMetric(curve.metric);
-  const best = metric === undefined ? undefined : bestScore(metric, curve.metricRange);
   const continuation: Continuation | null =
     calibration === null
       ? null
@@ -258,10 +262,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
     const draws = orientedDraws.map(toScore);
     const expected = toScore(expectedOriented(trainingSize));
     const { lower, upper } = interval(expected, draws);
-    const single = interval(
-      expected,
-      singleModelValues(draws, trainingSize, i, spread, curve.metricRange, resolved.seed),
-    );
+    const single = interval(expected, singleModelValues(draws, trainingSize, i, spread, scoreRange, resolved.seed));
     return {
       trainingSize,
       expected,

@@ -198,7 +198,15 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const resolved = resolveForecastOptions(curve, options);
   const { sign, summaries } = measured;
   const metric = findMetric(curve.metric);
-  const best = metric === undefined ? undefined : bestScore(metric, curve.metricRange);
+  const range0 = curve.metricRange;
+  const best =
+    metric !== undefined
+      ? bestScore(metric, range0)
+      : range0 === undefined
+        ? undefined
+        : curve.higherIsBetter
+          ? range0[1]
+          : range0[0];
   // A metric without a finite range still has a best value no score passes (R² 1, an error 0).
   const range: [number, number] | undefined =
     measuredRange(measured) ?? (best === undefined ? undefined : [-Infinity, sign * best + 0]);

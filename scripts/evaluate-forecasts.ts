@@ -28,7 +28,9 @@
  *
  * Printed: one line per forecast (data set, pilot, seed, target size, truth, forecast, 80% interval,
  * error in percentage points, whether the interval holds the truth), then per data set, per target
- * multiple, per pilot size and per suite the mean absolute error, the 80% interval's coverage and the largest error, the coverage
+ * multiple, per pilot size and per suite the mean absolute error, the signed error (mean of forecast −
+ * truth), the gain ratio (Σ(forecast − pilot's mean at its largest size) ÷ Σ(truth at the target −
+ * truth at that size)), the 80% interval's coverage and the largest error, the coverage
  * of the single-model interval (how often one model's held-out accuracy falls inside it), and the
  * pilot's own error: the mean absolute difference between the pilot curve's mean score at its
  * largest size and the truth at that size, the part of the error that comes from which rows the
@@ -343,6 +345,9 @@ interface Row {
   pilotError: number;
   /** The forecast's standard deviation for which samples were collected (its shared shift). */
   sampleStandardDeviation: number;
+  /** The pilot curve's mean at its largest size, and the truth there (for the gain ratio). */
+  scoreAtLargest: number;
+  truthAtLargest: number;
 }
 
 const rows: Row[] = [];
@@ -401,6 +406,8 @@ for (const population of populations()) {
           singleModelCoverage,
           pilotError: lastMean - atLargest.mean,
           sampleStandardDeviation: forecast.sampleStandardDeviation ?? 0,
+          scoreAtLargest: lastMean,
+          truthAtLargest: atLargest.mean,
         });
         console.log(
           [
@@ -437,6 +444,13 @@ for (const population of populations()) {
 interface Summary {
   forecasts: number;
   meanAbsoluteError: number;
+  /** Mean of forecast − truth: a one-sided bias shows here, not in the absolute error. */
+  signedError: number;
+  /**
+   * Σ(forecast − pilot's score at its largest size) ÷ Σ(truth at the target − truth at that size):
+   * the share of the true gain from the largest measured size that the forecast foresaw.
+   */
+  gainRatio: number;
   coverage: number;
   largestError: number;
   singleModelCoverage: number;
@@ -449,6 +463,10 @@ function summarize(selection: readonly Row[]): Summary {
   return {
     forecasts: selection.length,
     meanAbsoluteError: mean(errors),
+    signedError: mean(selection.map((r) => r.forecast - r.truth)),
+    gainRatio:
+      selection.reduce((s, r) => s + r.forecast - r.scoreAtLargest, 0) /
+      selection.reduce((s, r) => s + r.truth - r.truthAtLargest, 0),
     coverage: mean(selection.map((r) => (r.inside ? 1 : 0))),
     largestError: Math.max(...errors),
     singleModelCoverage: mean(selection.map((r) => r.singleModelCoverage)),
@@ -461,6 +479,8 @@ function summaryLine(label: string, s: Summary): string {
     label.padEnd(28),
     String(s.forecasts).padStart(4),
     (100 * s.meanAbsoluteError).toFixed(2).padStart(8),
+    (100 * s.signedError).toFixed(2).padStart(10),
+    s.gainRatio.toFixed(2).padStart(10),
     `${(100 * s.coverage).toFixed(0)}%`.padStart(9),
     (100 * s.largestError).toFixed(1).padStart(9),
     `${(100 * s.singleModelCoverage).toFixed(0)}%`.padStart(13),
@@ -475,6 +495,8 @@ console.log(
     "data set".padEnd(28),
     "n".padStart(4),
     "MAE (pp)".padStart(8),
+    "signed (pp)".padStart(10),
+    "gain ratio".padStart(10),
     "coverage".padStart(9),
     "max (pp)".padStart(9),
     "single-model".padStart(13),

@@ -26,6 +26,11 @@ interface MetricBase {
    * for metrics with an infinite end (log loss, RMSE, MAE, R²): curve.json has no Infinity.
    */
   readonly range?: [number, number];
+  /**
+   * The best possible score, for a metric without a finite range (R²: 1; log loss, RMSE, MAE: 0);
+   * a metric with a range has its best at the range's better end ({@link bestScore}).
+   */
+  readonly best?: number;
 }
 
 /** A metric of class probabilities against true classes. */
@@ -188,6 +193,7 @@ export const logLoss: ClassificationMetric = {
   readsProbabilities: true,
   label: "log loss",
   higherIsBetter: false,
+  best: 0,
   score(labels, probabilities, classCount) {
     const eps = Number.EPSILON;
     const clip = (p: number) => Math.min(Math.max(p, eps), 1 - eps);
@@ -273,6 +279,7 @@ export const rmse: RegressionMetric = {
   name: "rmse",
   label: "RMSE",
   higherIsBetter: false,
+  best: 0,
   score(targets, predictions) {
     let total = 0;
     for (let i = 0; i < targets.length; i++) total += (targets[i] - predictions[i]) ** 2;
@@ -286,6 +293,7 @@ export const mae: RegressionMetric = {
   name: "mae",
   label: "MAE",
   higherIsBetter: false,
+  best: 0,
   score(targets, predictions) {
     let total = 0;
     for (let i = 0; i < targets.length; i++) total += Math.abs(targets[i] - predictions[i]);
@@ -303,6 +311,7 @@ export const r2: RegressionMetric = {
   name: "r2",
   label: "R²",
   higherIsBetter: true,
+  best: 1,
   undefinedOn(targets) {
     for (let i = 1; i < targets.length; i++) if (targets[i] !== targets[0]) return undefined;
     return "R² needs held-out targets that are not all equal";
@@ -326,6 +335,13 @@ export const metrics: readonly Metric[] = [accuracy, balancedAccuracy, rocAuc, l
 /** The metric of that name, or undefined. */
 export function findMetric(name: string): Metric | undefined {
   return metrics.find((m) => m.name === name);
+}
+
+/** The best possible score of a metric (its range's better end, or `best`), if it has one. */
+export function bestScore(metric: Metric, range: [number, number] | undefined): number | undefined {
+  if (metric.best !== undefined) return metric.best;
+  if (range === undefined) return undefined;
+  return metric.higherIsBetter ? range[1] : range[0];
 }
 
 /** The metric's range on a data set with this many classes (regression: `classCount` unused). */

@@ -91,12 +91,14 @@ export function firstBacktestCut(sizeCount: number): number {
  * Fits the candidate families, backtests them and weighs them (see the file comment).
  * @param forced a family the user chose (`--family`); it alone is used, backtested when it can be.
  * @param seed seeds the backtest's resamples, `StreamPurpose.backtestResample` (resample r).
+ * @param spread multiplies every family's extrapolation error (the corpus calibration's).
  * @throws FitError when no candidate family can be fitted.
  */
 export function assessFamilies(
   measured: MeasuredCurve,
   forced: CurveFamily | undefined,
   seed: number,
+  spread = 1,
 ): FamilyAssessment {
   const { oriented, orientation } = measured;
   const sizeCount = oriented.length;
@@ -162,7 +164,7 @@ export function assessFamilies(
     fit: k.fit,
     weight: inverse[i] / total,
     backtestError: k.errors ? Math.sqrt(mean(k.errors.squared)) : null,
-    extrapolationError: k.errors ? extrapolationError(k.errors) : 0,
+    extrapolationError: k.errors ? spread * extrapolationError(k.errors) : 0,
   }));
   return {
     families,

@@ -16,7 +16,10 @@
  * 3. adds one normal shift shared by every size, for which samples were collected
  *    (`sampleShift`, Nadeau and Bengio 2003);
  * 4. adds the family's extrapolation error, τ · sqrt(ln(n / largest measured size)) times one
- *    standard normal shared by every size beyond the largest measured one (`assessFamilies`).
+ *    standard normal shared by every size beyond the largest measured one (`assessFamilies`);
+ * 5. carries the continuation learned from the corpus of measured curves (`gainCorrection.ts`):
+ *    beyond the largest measured size L the draw continues from its value at L by the learned gain
+ *    instead of its family's formula (none with `--family`).
  *
  * Deterministic for a seed: draw j uses the stream `StreamPurpose.curveDraw` (j) for its repeats and normals.
  */
@@ -32,6 +35,7 @@ import {
 import { StreamPurpose, streamFor } from "../random.js";
 import type { AssessedFamily } from "./backtest.js";
 import type { MeasuredCurve } from "./measuredCurve.js";
+import { continuedGain, type Continuation } from "./gainCorrection.js";
 import { repeatLabels, resampledPoints } from "./resampling.js";
 
 /** One drawn curve in oriented units. */
@@ -42,6 +46,8 @@ export interface DrawnCurve {
   shift: number;
   /** τ times a standard normal: the extrapolation error at ln(n / largest measured size) = 1. */
   extrapolation: number;
+  /** The learned continuation beyond the largest measured size, or null for the family's own ({@link drawnValue}). */
+  continuation: Continuation | null;
 }
 
 export interface DrawnCurves {
@@ -58,6 +64,7 @@ export function drawCurves(
   families: readonly AssessedFamily[],
   shiftStandardDeviation: number,
   options: { seed: number; draws: number },
+  continuation: Continuation | null,
 ): DrawnCurves {
   const { orientation } = measured;
   const assignment = shareDraws(
@@ -78,7 +85,13 @@ export function drawCurves(
       result.dropped++;
       continue;
     }
-    result.curves.push({ family: assessed.family, parameters: refit.parameters, shift, extrapolation });
+    result.curves.push({
+      family: assessed.family,
+      parameters: refit.parameters,
+      shift,
+      extrapolation,
+      continuation,
+    });
   }
   if (result.curves.length === 0) {
     throw new FitError(message.noRefitSucceeded(options.draws));
@@ -86,15 +99,31 @@ export function drawCurves(
   return result;
 }
 
-/** A draw's oriented value at size n, clamped to the oriented range when there is one. */
+/**
+ * A draw's oriented value at size n, clamped to the oriented range when there is one. Up to the
+ * largest measured size L: the family's value m(n) plus the shift. Beyond it, with d = ln(n / L):
+ * the family's value m(n), or with a continuation m(L) + the learned gain (`continuedGain`), plus
+ * the shift and `extrapolation · sqrt(d)`. The one function that evaluates a draw (the point
+ * forecast is a draw with no shift or extrapolation error).
+ */
 export function drawnValue(
   curve: DrawnCurve,
   trainingSize: number,
   largestMeasured: number,
   range?: [number, number],
 ): number {
-  const distance = trainingSize > largestMeasured ? Math.sqrt(Math.log(trainingSize / largestMeasured)) : 0;
-  const value = curve.family.model(trainingSize, curve.parameters) + curve.shift + curve.extrapolation * distance;
+  let value: number;
+  let distance = 0;
+  if (trainingSize > largestMeasured) {
+    distance = Math.sqrt(Math.log(trainingSize / largestMeasured));
+    const { family, parameters, continuation } = curve;
+    if (continuation === null) value = family.model(trainingSize, parameters);
+    else {
+      const model = (size: number): number => family.model(size, parameters);
+      value = model(largestMeasured) + continuedGain(continuation, model, largestMeasured, trainingSize);
+    }
+  } else value = curve.family.model(trainingSize, curve.parameters);
+  value += curve.shift + curve.extrapolation * distance;
   return range === undefined ? value : Math.min(range[1], Math.max(range[0], value));
 }
 

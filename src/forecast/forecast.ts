@@ -9,8 +9,9 @@ import { UsageError } from "../errors.js";
 import { curveFamilies, findCurveFamily, type CurveFamily } from "../fit/families.js";
 import { message } from "../messages.js";
 import { assessFamilies, type AssessedFamily } from "./backtest.js";
-import { drawCurves, drawnValue, measuredRange } from "./drawCurves.js";
-import { expectedValue, storeCurve, storeFit, type WeightedFit } from "./storedCurves.js";
+import { drawCurves, drawnValue } from "./drawCurves.js";
+import { expectedValue, scoreLimits, storeCurve, storeFit, type WeightedFit } from "./storedCurves.js";
+import { shippedCalibration, type Continuation, type GainCalibration } from "./gainCorrection.js";
 import type { BandPoint, ForecastFile, Projection } from "./forecastFile.js";
 import { forecastWarnings } from "./forecastWarnings.js";
 import { measuredCurve } from "./measuredCurve.js";
@@ -62,6 +63,13 @@ export interface ForecastOptions {
    * @default the curve's rows (a test set as large as today's data set), else its largest size
    */
   testSize?: number;
+  /**
+   * The continuation learned from the corpus of measured curves (`gainCorrection.ts`); the corpus
+   * evaluation passes one learned without the data set it forecasts; null turns it off (each family
+   * extrapolates by its own formula, as with `family`).
+   * @default the shipped calibration
+   */
+  calibration?: GainCalibration | null;
 }
 
 export interface ResolvedForecastOptions {
@@ -73,6 +81,7 @@ export interface ResolvedForecastOptions {
   target: number | undefined;
   confidence: number;
   testSize: number;
+  calibration: GainCalibration | null;
 }
 
 /** Multiples of the data set's rows projected to by default. */
@@ -130,7 +139,9 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
   if (!(Number.isInteger(testSize) && testSize >= 1)) {
     throw new UsageError(message.testSizeNotWhole(testSize), { option: "testSize" });
   }
-  return { at, level, seed, draws, family, target, confidence, testSize };
+  const calibration =
+    family !== undefined ? null : options.calibration === undefined ? shippedCalibration : options.calibration;
+  return { at, level, seed, draws, family, target, confidence, testSize, calibration };
 }
 
 /** The curve family named by the `family` option; throws UsageError naming the known ones. */
@@ -184,28 +195,43 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const measured = measuredCurve(curve);
   const resolved = resolveForecastOptions(curve, options);
   const { sign, summaries } = measured;
-  const range = measuredRange(measured);
+  // A metric without a finite range still has a best value no score passes (R² 1, an error 0).
+  const { best, range } = scoreLimits(curve);
   const clampOriented = (value: number): number =>
     range === undefined ? value : Math.min(range[1], Math.max(range[0], value));
+  const scoreRange: [number, number] | undefined =
+    range === undefined ? undefined : sign > 0 ? [range[0], range[1]] : [-range[1] + 0, -range[0] + 0];
   const toScore = (oriented: number): number => sign * oriented + 0;
   const smallestMeasured = summaries[0].trainingSize;
   const largestMeasured = summaries[summaries.length - 1].trainingSize;
 
   // 2. Fit and weigh the families.
-  const assessment = assessFamilies(measured, resolved.family, resolved.seed);
+  const calibration = resolved.calibration;
+  const assessment = assessFamilies(measured, resolved.family, resolved.seed, calibration?.spread ?? 1);
   const families = assessment.families;
+  const continuation: Continuation | null =
+    calibration === null
+      ? null
+      : {
+          ownWeight: calibration.ownWeight,
+          chordWeight: calibration.chordWeight,
+          slopeWeight: calibration.slopeWeight,
+          headroomWeight: calibration.headroomWeight,
+          smallestSize: smallestMeasured,
+          best: best === undefined ? null : sign * best,
+        };
   const fits: WeightedFit[] = families.map((f) => ({
     family: f.family,
     weight: f.weight,
     parameters: f.fit.parameters,
   }));
-  const expectedOriented = (size: number): number => expectedValue(fits, size, range);
+  const expectedOriented = (size: number): number => expectedValue(fits, size, largestMeasured, continuation, range);
 
   // 3. The shift for which samples were collected.
   const shift = sampleShift(curve, measured);
 
   // 4. Draws.
-  const drawn = drawCurves(measured, families, shift.standardDeviation, resolved);
+  const drawn = drawCurves(measured, families, shift.standardDeviation, resolved, continuation);
   const drawsAt = (size: number): number[] => drawn.curves.map((c) => drawnValue(c, size, largestMeasured, range));
 
   // 5. Project.
@@ -224,10 +250,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
     const draws = orientedDraws.map(toScore);
     const expected = toScore(expectedOriented(trainingSize));
     const { lower, upper } = interval(expected, draws);
-    const single = interval(
-      expected,
-      singleModelValues(draws, trainingSize, i, spread, curve.metricRange, resolved.seed),
-    );
+    const single = interval(expected, singleModelValues(draws, trainingSize, i, spread, scoreRange, resolved.seed));
     return {
       trainingSize,
       expected,
@@ -309,6 +332,17 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
     };
   }
   if (answer !== undefined) forecast.targetSize = answer;
+  if (continuation !== null && calibration !== null) {
+    forecast.continuation = {
+      ownWeight: continuation.ownWeight,
+      chordWeight: continuation.chordWeight,
+      slopeWeight: continuation.slopeWeight,
+      headroomWeight: continuation.headroomWeight,
+      spread: calibration.spread,
+      smallestSize: continuation.smallestSize,
+      best: continuation.best === null ? null : sign * continuation.best + 0,
+    };
+  }
   if (curve.metricRange !== undefined) forecast.metricRange = curve.metricRange;
   if (Number.isFinite(curve.rows) && curve.rows > 0) forecast.rows = curve.rows;
   return forecast;

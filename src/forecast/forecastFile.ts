@@ -138,4 +138,21 @@ export interface ForecastFile {
    * Oriented units: the score times −1 when lower is better. Absent in files of earlier versions.
    */
   curves?: { drawn: StoredCurve[]; fits: StoredFit[] };
+  /**
+   * The continuation learned from the corpus of measured curves that every draw and the expected
+   * score follow beyond the largest measured size (src/forecast/gainCorrection.ts), with the
+   * multiplier of the extrapolation error; absent when each family extrapolates by its own formula
+   * (`--family`).
+   */
+  continuation?: {
+    ownWeight: number;
+    chordWeight: number;
+    slopeWeight: number;
+    headroomWeight: number;
+    spread: number;
+    /** Smallest measured size (n₁). */
+    smallestSize: number;
+    /** The metric's best value, in the metric's units; null when unknown. */
+    best: number | null;
+  };
 }

@@ -11,9 +11,11 @@
  * A stored curve is the drawn curve with its family replaced by the family's name: any field the
  * draw gains travels with it unchanged.
  */
+import { bestScore, findMetric } from "../curve/metrics.js";
 import { findCurveFamily, orientationSign, orientedRange, type CurveFamily } from "../fit/families.js";
 import { drawnValue, type DrawnCurve } from "./drawCurves.js";
 import type { ForecastFile, StoredCurve, StoredFit } from "./forecastFile.js";
+import type { Continuation } from "./gainCorrection.js";
 
 /** A family's point fit with its weight in the combined forecast, in oriented units. */
 export interface WeightedFit {
@@ -22,14 +24,59 @@ export interface WeightedFit {
   parameters: readonly number[];
 }
 
-/** The oriented expected score at a size: the weighted mean of the families' fits, clamped to the range. */
-export function expectedValue(fits: readonly WeightedFit[], trainingSize: number, range?: [number, number]): number {
-  const value = fits.reduce((sum, f) => sum + f.weight * f.family.model(trainingSize, f.parameters), 0);
+/**
+ * The oriented expected score at a size: the weighted mean of the families' point fits, each
+ * evaluated as a draw with no shift or extrapolation error (so by the same function as the draws),
+ * clamped to the range.
+ */
+export function expectedValue(
+  fits: readonly WeightedFit[],
+  trainingSize: number,
+  largestMeasured: number,
+  continuation: Continuation | null,
+  range?: [number, number],
+): number {
+  const value = fits.reduce(
+    (sum, f) =>
+      sum +
+      f.weight *
+        drawnValue(
+          { family: f.family, parameters: [...f.parameters], shift: 0, extrapolation: 0, continuation },
+          trainingSize,
+          largestMeasured,
+        ),
+    0,
+  );
   return range === undefined ? value : Math.min(range[1], Math.max(range[0], value));
 }
 
+/**
+ * The oriented range a forecast clamps to, and the metric's best value in its own units: the
+ * metric's range, or, for a metric without a finite range, up to its best value (R² 1, an error 0).
+ */
+export function scoreLimits(orientation: { metric: string; higherIsBetter: boolean; metricRange?: [number, number] }): {
+  best: number | undefined;
+  range: [number, number] | undefined;
+} {
+  const { metricRange, higherIsBetter } = orientation;
+  const metric = findMetric(orientation.metric);
+  const best =
+    metric !== undefined
+      ? bestScore(metric, metricRange)
+      : metricRange === undefined
+        ? undefined
+        : higherIsBetter
+          ? metricRange[1]
+          : metricRange[0];
+  const sign = orientationSign(orientation);
+  const range =
+    orientedRange(orientation) ?? (best === undefined ? undefined : ([-Infinity, sign * best + 0] as [number, number]));
+  return { best, range };
+}
+
+/** A drawn curve as stored: its family by name, without the continuation (stored once, beside the curves). */
 export function storeCurve(curve: DrawnCurve): StoredCurve {
-  const { family, ...rest } = curve;
+  const { family, continuation: _continuation, ...rest } = curve;
   return { ...rest, family: family.name, parameters: [...curve.parameters] };
 }
 
@@ -54,15 +101,30 @@ export interface ForecastCurves {
 export function forecastCurves(forecast: ForecastFile): ForecastCurves | undefined {
   const stored = forecast.curves;
   if (stored === undefined || stored.drawn.length === 0 || stored.fits.length === 0) return undefined;
-  const orientation = { higherIsBetter: forecast.higherIsBetter, metricRange: forecast.metricRange };
-  const sign = orientationSign(orientation);
-  const range = orientedRange(orientation);
+  const sign = orientationSign(forecast);
+  const { range } = scoreLimits(forecast);
   const largest = forecast.largestMeasuredSize;
-  const drawn: DrawnCurve[] = stored.drawn.map((curve) => ({ ...curve, family: findCurveFamily(curve.family) }));
+  const c = forecast.continuation;
+  const continuation: Continuation | null =
+    c === undefined
+      ? null
+      : {
+          ownWeight: c.ownWeight,
+          chordWeight: c.chordWeight,
+          slopeWeight: c.slopeWeight,
+          headroomWeight: c.headroomWeight,
+          smallestSize: c.smallestSize,
+          best: c.best === null ? null : sign * c.best,
+        };
+  const drawn: DrawnCurve[] = stored.drawn.map((curve) => ({
+    ...curve,
+    family: findCurveFamily(curve.family),
+    continuation,
+  }));
   const fits: WeightedFit[] = stored.fits.map((fit) => ({ ...fit, family: findCurveFamily(fit.family) }));
   return {
     drawCount: drawn.length,
     drawAt: (trainingSize, draw) => sign * drawnValue(drawn[draw], trainingSize, largest, range) + 0,
-    expectedAt: (trainingSize) => sign * expectedValue(fits, trainingSize, range) + 0,
+    expectedAt: (trainingSize) => sign * expectedValue(fits, trainingSize, largest, continuation, range) + 0,
   };
 }

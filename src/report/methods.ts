@@ -4,6 +4,7 @@
  * were weighed. Each paragraph is built by its own function and listed in `methodsSection`; a
  * reference is listed only when a paragraph cites it.
  */
+import { learnedForecastText } from "./forecastMethodText.js";
 import { curveFamilies } from "../fit/families.js";
 import {
   likelyRange,
@@ -282,10 +283,13 @@ export function methodsSection(input: ReportInput, info: MetricInfo, backtestCha
   cited.add("okabe");
   // In reading order. A further paragraph (say, on what the forecast learned from) is one more entry
   // here, built by its own function from the input, adding what it cites to `cited`.
+  const learnedText = learnedForecastText(forecast);
+  const learned = learnedText === undefined ? [] : [learnedText];
   const paragraphs: MethodParagraph[] = [
     { heading: "Measurement", text: measurement.join(" ") },
     { heading: "Curve families and fitting", text: fitting.join(" ") },
     { heading: "Backtest", text: backtestText, figure: backtestChart },
+    ...learned.map((text) => ({ heading: "What the forecast learned from", text })),
     { heading: "Uncertainty", text: uncertainty.join(" ") },
     ...(weighing.length > 0 ? [{ heading: "Weighing the runs", text: weighing.join(" ") }] : []),
     {

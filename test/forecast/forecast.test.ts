@@ -2,8 +2,23 @@ import { mean, sampleStandardDeviation, sampleVariance } from "simple-statistics
 import { describe, expect, it } from "vitest";
 import type { CurveFile, CurvePoint } from "../../src/curve/curveFile.js";
 import { FitError, UsageError } from "../../src/errors.js";
-import { forecastCurve, quantileSorted, resolveForecastOptions } from "../../src/forecast/forecast.js";
+import {
+  forecastCurve,
+  quantileSorted,
+  resolveForecastOptions,
+  type ForecastOptions,
+} from "../../src/forecast/forecast.js";
+import { continuedGain, shippedCalibration } from "../../src/forecast/gainCorrection.js";
 import { RandomStream } from "../../src/random.js";
+
+/**
+ * The forecast with each family extrapolating by its own formula (no continuation learned from the
+ * corpus): most checks here are of the families' fits, weights and draws, whose exact extrapolation
+ * is known. The learned continuation has its own checks at the end.
+ */
+function familiesOnly(curve: CurveFile, options: ForecastOptions = {}): ReturnType<typeof forecastCurve> {
+  return forecastCurve(curve, { calibration: null, ...options });
+}
 
 const sizes = [25, 50, 100, 200, 400, 800];
 /** The default curve's eight sizes (geometric from 10 to 800). */
@@ -53,7 +68,7 @@ function exactPoints(truth: (n: number) => number, fits = 25, at = sizes): Curve
 }
 
 describe("forecastCurve on exact pow3 points", () => {
-  const forecast = forecastCurve(curveOf(exactPoints(accuracyTruth)));
+  const forecast = familiesOnly(curveOf(exactPoints(accuracyTruth)));
 
   it("projects to rows × [1, 1.5, 2, 3, 5] by default, sorted", () => {
     expect(forecast.projections.map((p) => p.trainingSize)).toEqual([1000, 1500, 2000, 3000, 5000]);
@@ -117,7 +132,7 @@ describe("forecastCurve on exact pow3 points", () => {
 describe("forecastCurve backtest", () => {
   // Eight sizes, as `headroom measure` gives by default: backtest fits use the 5, 6 and 7 smallest
   // sizes (first cut max(4, 8 − 3) = 5), so each family makes 3 + 2 + 1 = 6 predictions.
-  const forecast = forecastCurve(curveOf(noisyPoints(accuracyTruth, 31, { at: eightSizes })), { draws: 50 });
+  const forecast = familiesOnly(curveOf(noisyPoints(accuracyTruth, 31, { at: eightSizes })), { draws: 50 });
   const backtest = forecast.backtest!;
 
   it("predicts each held-back size from fits to the smaller ones, six predictions per family", () => {
@@ -162,7 +177,7 @@ describe("forecastCurve backtest", () => {
   });
 
   it("has no backtest with 4 sizes or fewer, and then fits pow3 alone", () => {
-    const few = forecastCurve(curveOf(noisyPoints(accuracyTruth, 32).slice(0, 4)), { draws: 20, at: [1000] });
+    const few = familiesOnly(curveOf(noisyPoints(accuracyTruth, 32).slice(0, 4)), { draws: 20, at: [1000] });
     expect(few.backtest).toBeUndefined();
     expect(few.familyWeights).toEqual({ pow3: 1 });
   });
@@ -174,14 +189,14 @@ describe("forecastCurve model averaging and --family", () => {
   const curve = curveOf(exactPoints(exp3Truth, 25, eightSizes));
 
   it("puts the weight on exp3 when the points are an exact exp3 curve, and recovers it", () => {
-    const forecast = forecastCurve(curve, { at: [2000], draws: 50 });
+    const forecast = familiesOnly(curve, { at: [2000], draws: 50 });
     expect(forecast.familyWeights!.exp3).toBeGreaterThan(0.4);
     expect(Math.abs(forecast.projections[0].expected - exp3Truth(2000))).toBeLessThan(1e-4);
   });
 
   it("uses only the forced family, which extrapolates worse here, with a wider interval from its backtest error", () => {
-    const averaged = forecastCurve(curve, { at: [2000], draws: 50 });
-    const forced = forecastCurve(curve, { at: [2000], draws: 50, family: "pow3" });
+    const averaged = familiesOnly(curve, { at: [2000], draws: 50 });
+    const forced = familiesOnly(curve, { at: [2000], draws: 50, family: "pow3" });
     expect(forced.family).toBe("pow3");
     expect(forced.familyWeights).toEqual({ pow3: 1 });
     expect(Object.keys(forced.backtest!.rootMeanSquareError)).toEqual(["pow3"]);
@@ -193,14 +208,14 @@ describe("forecastCurve model averaging and --family", () => {
   });
 
   it("forces the no-gain baseline: every projection is the last measured mean", () => {
-    const forecast = forecastCurve(curve, { at: [1000, 4000], draws: 20, family: "last" });
+    const forecast = familiesOnly(curve, { at: [1000, 4000], draws: 20, family: "last" });
     for (const p of forecast.projections) expect(p.expected).toBe(exp3Truth(800));
   });
 });
 
 describe("forecastCurve on noisy points from a known pow3", () => {
   const curve = curveOf(noisyPoints(accuracyTruth, 11));
-  const forecast = forecastCurve(curve);
+  const forecast = familiesOnly(curve);
 
   it("summarizes each size with the sample mean and standard deviation (simple-statistics)", () => {
     forecast.measured.forEach((summary, i) => {
@@ -249,7 +264,7 @@ describe("forecastCurve on noisy points from a known pow3", () => {
     let width = 0;
     const dataSets = 30;
     for (let d = 0; d < dataSets; d++) {
-      const projection = forecastCurve(curveOf(noisyPoints(accuracyTruth, 100 + d)), { draws: 60, at: [3000] })
+      const projection = familiesOnly(curveOf(noisyPoints(accuracyTruth, 100 + d)), { draws: 60, at: [3000] })
         .projections[0];
       if (projection.lower <= accuracyTruth(3000) && accuracyTruth(3000) <= projection.upper) covered++;
       width += (projection.upper - projection.lower) / dataSets;
@@ -268,7 +283,7 @@ describe("forecastCurve uncertainty parts", () => {
     scores: shifts.flatMap((s) => Array(5).fill(accuracyTruth(trainingSize) + s)),
   }));
   // pow3 alone: its backtest errors are 0, so its draws carry no extrapolation error.
-  const forecast = forecastCurve(curveOf(points), { at: [1000, 5000], family: "pow3" });
+  const forecast = familiesOnly(curveOf(points), { at: [1000, 5000], family: "pow3" });
 
   it("draw j of every projection comes from the same curve: the same shift at every size", () => {
     const [near, far] = forecast.projections;
@@ -304,7 +319,7 @@ describe("forecastCurve uncertainty parts", () => {
       scores: p.scores.slice().reverse(),
       repeatOfScore: p.scores.map((_, s) => 4 - Math.floor(s / 5)),
     }));
-    const other = forecastCurve(curveOf(labeled), { at: [1000, 5000], family: "pow3" });
+    const other = familiesOnly(curveOf(labeled), { at: [1000, 5000], family: "pow3" });
     // Equal up to the round-off of summing the scores in another order.
     other.projections.forEach((p, i) => {
       const q = forecast.projections[i];
@@ -318,8 +333,8 @@ describe("forecastCurve uncertainty parts", () => {
 
   it("narrows the single-model interval as the test set grows, down to the expected-score interval's scale", () => {
     const curve = curveOf(noisyPoints(accuracyTruth, 12));
-    const small = forecastCurve(curve, { at: [3000], draws: 100, testSize: 20 }).projections[0];
-    const large = forecastCurve(curve, { at: [3000], draws: 100, testSize: 100_000 }).projections[0];
+    const small = familiesOnly(curve, { at: [3000], draws: 100, testSize: 20 }).projections[0];
+    const large = familiesOnly(curve, { at: [3000], draws: 100, testSize: 100_000 }).projections[0];
     const half = (p: typeof small) => (p.singleModelUpper! - p.singleModelLower!) / 2;
     expect(half(small)).toBeGreaterThan(half(large));
     // With 20 test rows the binomial sd alone is sqrt(p(1 − p)/20) ≈ 0.07; a central 80% interval
@@ -339,7 +354,7 @@ describe("forecastCurve orientation and bounds", () => {
       higherIsBetter: false,
       metricRange: [0, Infinity],
     });
-    const forecast = forecastCurve(curve);
+    const forecast = familiesOnly(curve);
     const largestMeasuredMean = forecast.measured[forecast.measured.length - 1].mean;
     const expected = forecast.projections.map((p) => p.expected);
     expect(expected[0]).toBeLessThan(largestMeasuredMean);
@@ -361,7 +376,7 @@ describe("forecastCurve orientation and bounds", () => {
       ...p,
       scores: p.scores.map((s) => Math.min(1, s)),
     }));
-    const forecast = forecastCurve(curveOf(points), { at: [1000, 10_000, 100_000], testSize: 10 });
+    const forecast = familiesOnly(curveOf(points), { at: [1000, 10_000, 100_000], testSize: 10 });
     const values = [
       ...forecast.projections.flatMap((p) => [
         p.expected,
@@ -386,7 +401,7 @@ describe("forecastCurve: the smallest training size reaching a target", () => {
 
   it("solves the expected curve for the target: n = (b / (a − target))^(1/c), rounded up", () => {
     // pow3 0.92 − 1.5·n^(−0.55) reaches 0.88 at n = (1.5 / 0.04)^(1/0.55) ≈ 727.5 (closed form).
-    const forecast = forecastCurve(exact, { at: [1000], draws: 50, target: 0.88 });
+    const forecast = familiesOnly(exact, { at: [1000], draws: 50, target: 0.88 });
     const exactSize = Math.pow(1.5 / 0.04, 1 / 0.55);
     expect(forecast.targetSize!.expected).toBe(Math.ceil(exactSize));
     // Every draw is the same curve here, so any confidence gives the same size.
@@ -396,7 +411,7 @@ describe("forecastCurve: the smallest training size reaching a target", () => {
   });
 
   it("answers null for a target above the asymptote, and searches up to 10,000 × the largest size", () => {
-    const forecast = forecastCurve(exact, { at: [1000], draws: 50, target: 0.95 });
+    const forecast = familiesOnly(exact, { at: [1000], draws: 50, target: 0.95 });
     expect(forecast.targetSize).toEqual({
       target: 0.95,
       confidence: 0.8,
@@ -407,14 +422,14 @@ describe("forecastCurve: the smallest training size reaching a target", () => {
   });
 
   it("answers the smallest measured size for a target already reached there", () => {
-    const forecast = forecastCurve(exact, { at: [1000], draws: 50, target: 0.5 });
+    const forecast = familiesOnly(exact, { at: [1000], draws: 50, target: 0.5 });
     expect(forecast.targetSize!.expected).toBe(25);
   });
 
   it("asks for more samples to reach a target with higher confidence on a noisy curve", () => {
     const curve = curveOf(noisyPoints(accuracyTruth, 13));
     const at = (confidence: number) =>
-      forecastCurve(curve, { at: [1000], draws: 100, target: 0.885, confidence }).targetSize!;
+      familiesOnly(curve, { at: [1000], draws: 100, target: 0.885, confidence }).targetSize!;
     const likely = at(0.6);
     const sure = at(0.95);
     expect(likely.expected).not.toBeNull();
@@ -430,7 +445,7 @@ describe("forecastCurve: the smallest training size reaching a target", () => {
       metricRange: [0, Infinity],
     });
     // 0.3 + 2/sqrt(n) ≤ 0.35 from n = (2 / 0.05)² = 1600 on.
-    expect(forecastCurve(curve, { at: [1000], draws: 20, target: 0.35 }).targetSize!.expected).toBe(1600);
+    expect(familiesOnly(curve, { at: [1000], draws: 20, target: 0.35 }).targetSize!.expected).toBe(1600);
   });
 });
 
@@ -438,12 +453,12 @@ describe("forecastCurve determinism", () => {
   const curve = curveOf(noisyPoints(accuracyTruth, 21));
 
   it("gives identical output for the same seed", () => {
-    expect(forecastCurve(curve, { seed: 42 })).toEqual(forecastCurve(curve, { seed: 42 }));
+    expect(familiesOnly(curve, { seed: 42 })).toEqual(familiesOnly(curve, { seed: 42 }));
   });
 
   it("gives different draws for a different seed, and records the seed", () => {
-    const first = forecastCurve(curve, { seed: 1 });
-    const second = forecastCurve(curve, { seed: 2 });
+    const first = familiesOnly(curve, { seed: 1 });
+    const second = familiesOnly(curve, { seed: 2 });
     expect(first.seed).toBe(1);
     expect(second.seed).toBe(2);
     expect(first.projections[0].draws).not.toEqual(second.projections[0].draws);
@@ -452,16 +467,16 @@ describe("forecastCurve determinism", () => {
   it("forecasts a default eight-size curve with 200 draws in well under two seconds", () => {
     // Measured ~0.2–0.4 s on a loaded 2-core machine; the assertion allows 2 s.
     const eight = curveOf(noisyPoints(accuracyTruth, 22, { at: eightSizes, repeats: 10 }), { repeats: 10 });
-    forecastCurve(eight, { draws: 20 });
+    familiesOnly(eight, { draws: 20 });
     const started = performance.now();
-    forecastCurve(eight, { draws: 200 });
+    familiesOnly(eight, { draws: 200 });
     expect(performance.now() - started).toBeLessThan(2000);
   });
 });
 
 describe("forecastCurve warnings", () => {
   const warningsOf = (curve: CurveFile, at?: number[], family?: string) =>
-    forecastCurve(curve, { at, draws: 50, family }).warnings;
+    familiesOnly(curve, { at, draws: 50, family }).warnings;
 
   it("warns about fewer than 5 training sizes, and that one unchecked family was fitted", () => {
     const points = exactPoints(accuracyTruth).slice(0, 3);
@@ -513,7 +528,7 @@ describe("forecastCurve warnings", () => {
 
   it("warns when the repeat of each score and the test-fold size are unknown", () => {
     const curve = curveOf(noisyPoints(accuracyTruth, 4), { folds: undefined });
-    const forecast = forecastCurve(curve, { at: [1000], draws: 50 });
+    const forecast = familiesOnly(curve, { at: [1000], draws: 50 });
     expect(forecast.warnings).toEqual([
       expect.stringMatching(/does not say which repeat/),
       expect.stringMatching(/does not say how large its test folds were/),
@@ -557,8 +572,8 @@ describe("forecastCurve input checks", () => {
       message: /25 scores but 1 repeatOfScore entries/,
     },
   ])("throws FitError for $name", ({ points, message }) => {
-    expect(() => forecastCurve(curveOf(points))).toThrow(FitError);
-    expect(() => forecastCurve(curveOf(points))).toThrow(message);
+    expect(() => familiesOnly(curveOf(points))).toThrow(FitError);
+    expect(() => familiesOnly(curveOf(points))).toThrow(message);
   });
 
   it.each([
@@ -576,8 +591,8 @@ describe("forecastCurve input checks", () => {
     { options: { testSize: 2.5 }, message: /^testSize: must be a whole number of at least 1, not 2.5/ },
   ])("throws UsageError for options $options", ({ options, message }) => {
     const curve = curveOf(exactPoints(accuracyTruth));
-    expect(() => forecastCurve(curve, options)).toThrow(UsageError);
-    expect(() => forecastCurve(curve, options)).toThrow(message);
+    expect(() => familiesOnly(curve, options)).toThrow(UsageError);
+    expect(() => familiesOnly(curve, options)).toThrow(message);
   });
 
   it("projects to multiples of the largest measured size when rows are unknown", () => {
@@ -587,7 +602,61 @@ describe("forecastCurve input checks", () => {
   });
 
   it("sorts and de-duplicates the projection sizes it is given", () => {
-    const forecast = forecastCurve(curveOf(exactPoints(accuracyTruth)), { at: [3000, 1000, 2000, 1000], draws: 20 });
+    const forecast = familiesOnly(curveOf(exactPoints(accuracyTruth)), { at: [3000, 1000, 2000, 1000], draws: 20 });
     expect(forecast.projections.map((p) => p.trainingSize)).toEqual([1000, 2000, 3000]);
+  });
+});
+
+describe("forecastCurve's continuation learned from the corpus (gainCorrection.ts)", () => {
+  const curve = curveOf(exactPoints(accuracyTruth));
+  const learned = forecastCurve(curve, { draws: 50 });
+  const own = familiesOnly(curve, { draws: 50 });
+  const largest = 800;
+
+  it("follows the family up to the largest measured size, and the learned gain beyond it", () => {
+    // On exact pow3 points pow3 takes nearly all the weight, so the expected score is pow3's value at
+    // L plus its continued gain written out by hand: o·(m(n) − m(L)) + (c·chord + s·slope +
+    // h·(1 − m(L)))·ln(n / L), with pow3's slope per unit of ln n at L, c·b·L^(−c), in closed form.
+    const { ownWeight, chordWeight, slopeWeight, headroomWeight } = shippedCalibration;
+    const m = accuracyTruth;
+    const smallest = 25;
+    const n = 5000;
+    const chord = (m(largest) - m(smallest)) / Math.log(largest / smallest);
+    const slope = 0.55 * 1.5 * Math.pow(largest, -0.55); // d m / d ln n of a − b·n^(−c) at L
+    const byHand =
+      m(largest) +
+      ownWeight * (m(n) - m(largest)) +
+      (chordWeight * chord + slopeWeight * slope + headroomWeight * (1 - m(largest))) * Math.log(n / largest);
+    const atFive = learned.projections.find((p) => p.trainingSize === n);
+    expect(atFive?.expected).toBeCloseTo(byHand, 4);
+    const band = learned.band.filter((b) => b.trainingSize <= largest);
+    const ownBand = own.band.filter((b) => b.trainingSize <= largest);
+    band.forEach((b, i) => expect(b.expected).toBeCloseTo(ownBand[i].expected, 9));
+  });
+
+  it("writes the continuation it used into forecast.json", () => {
+    expect(learned.continuation).toEqual({ ...shippedCalibration, smallestSize: 25, best: 1 });
+    expect(own.continuation).toBeUndefined();
+  });
+
+  it("is left out when a family is forced (--family)", () => {
+    const forced = forecastCurve(curve, { family: "pow3", draws: 50 });
+    expect(forced.continuation).toBeUndefined();
+    expect(forced.projections[4].expected).toBeCloseTo(accuracyTruth(5000), 6);
+  });
+
+  it("continuedGain is zero at L and grows with ln(n / L) by the weighted chord, slope and distance left", () => {
+    const continuation = {
+      ownWeight: 0,
+      chordWeight: 0.5,
+      slopeWeight: 0.25,
+      headroomWeight: 0.1,
+      smallestSize: 10,
+      best: 1,
+    };
+    const model = (n: number): number => 0.5 + 0.1 * Math.log(n); // chord = slope = 0.1 per unit of ln n
+    expect(continuedGain(continuation, model, 100, 100)).toBeCloseTo(0, 12);
+    const perLog = 0.5 * 0.1 + 0.25 * 0.1 + 0.1 * (1 - model(100));
+    expect(continuedGain(continuation, model, 100, 100 * Math.E ** 2)).toBeCloseTo(2 * perLog, 6);
   });
 });

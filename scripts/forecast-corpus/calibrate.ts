@@ -1,0 +1,421 @@
+/**
+ * Learns the forecast's gain correction from the corpus of measured curves and judges it
+ * leave-one-data-set-out.
+ *
+ *     npx tsx scripts/forecast-corpus/calibrate.ts [--corpus fixtures/forecast-corpus] [--cache FILE]
+ *                                                  [--write]
+ *
+ * 1. For every pilot curve of the corpus, the forecast's uncorrected parts as `forecastCurve` makes
+ *    them (seed 1, 200 draws): each family's point fit and backtest weight, and the draws (family,
+ *    refitted parameters, shared shift, extrapolation error). They do not depend on the correction,
+ *    so they are computed once (`--cache FILE` keeps them between runs).
+ * 2. For each data set D, a continuation (gainCorrection.ts) is learned from the other data sets'
+ *    classification cases only (leave-one-data-set-out; both learners of D are left out): the weights
+ *    of the variant's terms by weighted least squares of truth − Σ w_f m_f(L) on the terms (each
+ *    data set weighing the same), constrained so that the summed forecast gain equals the summed
+ *    gain measured later (calibration in the large); then the spread (multiplier of the families'
+ *    extrapolation errors) by bisection, so that the 80% intervals hold the truth in 82% of the
+ *    training cases. D's cases are forecast with that continuation.
+ * 3. Prints the leave-one-data-set-out figures of each variant tried (spread 1), then the chosen
+ *    one's tables (`--variant NAME` chooses another).
+ * 4. With `--write`: the calibration learned from every data set goes to
+ *    src/forecast/corpusCalibration.ts, and each data set's leave-one-out calibration to
+ *    fixtures/forecast-corpus/leave-one-out.json (for evaluate-corpus.ts and the test).
+ */
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
+import { Matrix, solve } from "ml-matrix";
+import { assessFamilies } from "../../src/forecast/backtest.js";
+import { drawCurves, drawnValue, type DrawnCurve } from "../../src/forecast/drawCurves.js";
+import { measuredCurve } from "../../src/forecast/measuredCurve.js";
+import { sampleShift } from "../../src/forecast/sampleUncertainty.js";
+import { findCurveFamily, orientedRange } from "../../src/fit/families.js";
+import { quantileSorted } from "../../src/forecast/quantile.js";
+import { continuedGain, type Continuation, type GainCalibration } from "../../src/forecast/gainCorrection.js";
+import { bestScore, findMetric } from "../../src/curve/metrics.js";
+import { readCorpus } from "./corpus.js";
+import { corpusPilots, summarise, summaryTable, type CaseResult, type CorpusPilot } from "./cases.js";
+
+const argv = process.argv.slice(2);
+function option(name: string): string | undefined {
+  const index = argv.indexOf(name);
+  return index >= 0 ? argv[index + 1] : undefined;
+}
+const corpusDir = option("--corpus") ?? "fixtures/forecast-corpus";
+const cacheFile = option("--cache");
+const write = argv.includes("--write");
+
+// ---------------------------------------------------------------------------------------------
+// 1. The uncorrected parts of each pilot's forecast
+
+interface Parts {
+  sign: 1 | -1;
+  range?: [number, number];
+  families: { name: string; parameters: number[]; weight: number }[];
+  draws: { family: number; parameters: number[]; shift: number; extrapolation: number }[];
+}
+
+const pilots = corpusPilots(readCorpus(corpusDir));
+const keyOf = (p: CorpusPilot): string => `${p.dataSet}--${p.learner}--${p.size}--${p.draw}`;
+const cache: Record<string, Parts | null> =
+  cacheFile !== undefined && existsSync(cacheFile)
+    ? (JSON.parse(readFileSync(cacheFile, "utf8")) as Record<string, Parts | null>)
+    : {};
+let computed = 0;
+const started = performance.now();
+for (const pilot of pilots) {
+  const key = keyOf(pilot);
+  if (key in cache) continue;
+  try {
+    const measured = measuredCurve(pilot.curve);
+    const assessment = assessFamilies(measured, undefined, 1);
+    const shift = sampleShift(pilot.curve, measured);
+    const drawn = drawCurves(measured, assessment.families, shift.standardDeviation, { seed: 1, draws: 200 }, null);
+    const names = assessment.families.map((f) => f.family.name);
+    cache[key] = {
+      sign: measured.sign,
+      range: orientedRange(measured.orientation),
+      families: assessment.families.map((f) => ({
+        name: f.family.name,
+        parameters: f.fit.parameters,
+        weight: f.weight,
+      })),
+      draws: drawn.curves.map((c) => ({
+        family: names.indexOf(c.family.name),
+        parameters: c.parameters,
+        shift: c.shift,
+        extrapolation: c.extrapolation,
+      })),
+    };
+  } catch (error) {
+    console.error(`${key}: ${(error as Error).message}`);
+    cache[key] = null;
+  }
+  if (++computed % 100 === 0)
+    console.error(`${computed} pilots in ${((performance.now() - started) / 1000).toFixed(0)} s`);
+}
+if (cacheFile !== undefined && computed > 0) writeFileSync(cacheFile, JSON.stringify(cache));
+
+// ---------------------------------------------------------------------------------------------
+// 2. Forecasting a case with a calibration, and learning one
+
+const usable = pilots.filter((p) => cache[keyOf(p)] != null);
+/**
+ * The continuation is learned from the classification curves (accuracy) only: a pilot's R² on a
+ * numeric target swings by tens of points (R² far below 0 on small training sets), so those cases
+ * would swamp the fit; the numeric targets' figures are reported as a check out of the sample.
+ */
+const learnable = (p: CorpusPilot): boolean => p.task === "classification";
+
+function continuationOf(pilot: CorpusPilot, calibration: GainCalibration | null): Continuation | null {
+  if (calibration === null) return null;
+  const metric = findMetric(pilot.curve.metric);
+  const best = metric === undefined ? undefined : bestScore(metric, pilot.curve.metricRange);
+  const sign = metric?.higherIsBetter === false ? -1 : 1;
+  return {
+    ownWeight: calibration.ownWeight,
+    chordWeight: calibration.chordWeight,
+    slopeWeight: calibration.slopeWeight,
+    headroomWeight: calibration.headroomWeight,
+    smallestSize: pilot.curve.points[0].trainingSize,
+    best: best === undefined ? null : sign * best,
+  };
+}
+
+/** The forecast of one case as forecastCurve makes it: the weighted point fits, the draws' 80% interval. */
+function forecastCase(
+  pilot: CorpusPilot,
+  calibration: GainCalibration | null,
+  n: number,
+  drawLimit = Infinity,
+): { forecast: number; lower: number; upper: number } {
+  const parts = cache[keyOf(pilot)] as Parts;
+  const clamp = (v: number): number =>
+    parts.range === undefined ? v : Math.min(parts.range[1], Math.max(parts.range[0], v));
+  const continuation = continuationOf(pilot, calibration);
+  const spread = calibration?.spread ?? 1;
+  const drawn = (name: string, parameters: number[], shift: number, extrapolation: number): DrawnCurve => ({
+    family: findCurveFamily(name),
+    parameters,
+    shift,
+    extrapolation,
+    continuation,
+  });
+  const point = clamp(
+    parts.families.reduce((s, f) => s + f.weight * drawnValue(drawn(f.name, f.parameters, 0, 0), n, pilot.largest), 0),
+  );
+  const values = parts.draws
+    .slice(0, Math.min(drawLimit, parts.draws.length))
+    .map(
+      (d) =>
+        parts.sign *
+        drawnValue(
+          drawn(parts.families[d.family].name, d.parameters, d.shift, spread * d.extrapolation),
+          n,
+          pilot.largest,
+          parts.range,
+        ),
+    )
+    .sort((p, q) => p - q);
+  const expected = parts.sign * point;
+  return {
+    forecast: expected,
+    lower: Math.min(expected, quantileSorted(values, 0.1)),
+    upper: Math.max(expected, quantileSorted(values, 0.9)),
+  };
+}
+
+interface Variant {
+  name: string;
+  /** Which terms are learned (none: the families' own extrapolation). */
+  terms: ("own" | "chord" | "slope" | "headroom")[];
+  /** Whether the summed forecast gain is held to the summed true gain. */
+  constrained: boolean;
+}
+
+/**
+ * Weighted least squares of (truth − Σ w_f m_f(L)) on the features Σ w_f chord_f · ln(n/L) and
+ * Σ w_f (best − m_f(L)) · ln(n/L), each data set weighing the same, with the constraint (a Lagrange
+ * multiplier) that Σ over cases of the forecast gain, forecast − the pilot's score at L, equals
+ * Σ (truth at n − truth at L).
+ */
+function learnWeights(
+  train: readonly CorpusPilot[],
+  variant: Variant,
+): { ownWeight: number; chordWeight: number; slopeWeight: number; headroomWeight: number } {
+  const k = variant.terms.length;
+  const perDataSet = new Map<string, number>();
+  for (const p of train) perDataSet.set(p.dataSet, (perDataSet.get(p.dataSet) ?? 0) + p.targets.length);
+  const a = Matrix.zeros(k + 1, k + 1);
+  const b = Matrix.zeros(k + 1, 1);
+  let trueGain = 0;
+  const featureSum = new Array<number>(k).fill(0);
+  for (const p of train) {
+    const parts = cache[keyOf(p)] as Parts;
+    const continuation = continuationOf(p, {
+      ownWeight: 0,
+      chordWeight: 0,
+      slopeWeight: 0,
+      headroomWeight: 0,
+      spread: 1,
+    }) as Continuation;
+    const weight = 1 / (perDataSet.get(p.dataSet) as number);
+    let anchor = 0;
+    let chord = 0;
+    let left = 0;
+    let slope = 0;
+    for (const f of parts.families) {
+      const family = findCurveFamily(f.name);
+      const atLargest = family.model(p.largest, f.parameters);
+      const atSmallest = family.model(continuation.smallestSize, f.parameters);
+      anchor += f.weight * atLargest;
+      chord += (f.weight * (atLargest - atSmallest)) / Math.log(p.largest / continuation.smallestSize);
+      left += continuation.best === null ? 0 : f.weight * Math.max(0, continuation.best - atLargest);
+      // The slope as continuedGain takes it: the gain with only s = 1, over one unit of ln n.
+      slope +=
+        f.weight *
+        continuedGain(
+          { ...continuation, slopeWeight: 1 },
+          (size) => family.model(size, f.parameters),
+          p.largest,
+          p.largest * Math.E,
+        );
+    }
+    const features = { chord, slope, headroom: left };
+    const own = (size: number): number =>
+      parts.families.reduce((sum, f) => {
+        const family = findCurveFamily(f.name);
+        return sum + f.weight * (family.model(size, f.parameters) - family.model(p.largest, f.parameters));
+      }, 0);
+    for (const t of p.targets) {
+      const logRatio = Math.log(t.size / p.largest);
+      const x = variant.terms.map((term) => (term === "own" ? own(t.size) : features[term] * logRatio));
+      const y = parts.sign * t.truth - anchor;
+      for (let i = 0; i < k; i++) {
+        b.set(i, 0, b.get(i, 0) + weight * x[i] * y);
+        for (let j = 0; j < k; j++) a.set(i, j, a.get(i, j) + weight * x[i] * x[j]);
+        featureSum[i] += x[i];
+      }
+      // The forecast gain is anchor − score at L + x·β; the true gain, truth at n − truth at L.
+      trueGain += parts.sign * (t.truth - p.truthAtLargest) - (anchor - parts.sign * p.scoreAtLargest);
+    }
+  }
+  let size = k;
+  if (variant.constrained) {
+    for (let i = 0; i < k; i++) {
+      a.set(i, k, featureSum[i]);
+      a.set(k, i, featureSum[i]);
+    }
+    b.set(k, 0, trueGain);
+    size = k + 1;
+  }
+  const beta = solve(a.subMatrix(0, size - 1, 0, size - 1), b.subMatrix(0, size - 1, 0, 0)).getColumn(0);
+  const weightOf = (term: Variant["terms"][number]): number =>
+    variant.terms.includes(term) ? beta[variant.terms.indexOf(term)] : 0;
+  return {
+    ownWeight: weightOf("own"),
+    chordWeight: weightOf("chord"),
+    slopeWeight: weightOf("slope"),
+    headroomWeight: weightOf("headroom"),
+  };
+}
+
+const targetCoverage = 0.82;
+
+/** Share of the cases whose 80% interval (from the first 50 draws) holds the truth. */
+function coverageOf(train: readonly CorpusPilot[], calibration: GainCalibration): number {
+  let inside = 0;
+  let count = 0;
+  for (const p of train) {
+    for (const t of p.targets) {
+      const f = forecastCase(p, calibration, t.size, 50);
+      inside += f.lower <= t.truth && t.truth <= f.upper ? 1 : 0;
+      count++;
+    }
+  }
+  return inside / count;
+}
+
+/**
+ * The continuation's weights, then the spread (to a 0.05 step, from 0.25 to 4) whose intervals hold
+ * the truth in the share of the training cases closest to 0.82, by bisection (coverage grows with it).
+ */
+function learnCalibration(
+  train: readonly CorpusPilot[],
+  variant: Variant,
+  learnSpread: boolean,
+): GainCalibration | null {
+  if (variant.terms.length === 0) return null;
+  const weights = learnWeights(train, variant);
+  if (!learnSpread) return { ...weights, spread: 1 };
+  let low = 0.25;
+  let high = 4;
+  while (high - low > 0.05) {
+    const middle = (low + high) / 2;
+    if (coverageOf(train, { ...weights, spread: middle }) < targetCoverage) low = middle;
+    else high = middle;
+  }
+  return { ...weights, spread: Math.round(((low + high) / 2) * 20) / 20 };
+}
+
+function results(pilot: CorpusPilot, calibration: GainCalibration | null): CaseResult[] {
+  return pilot.targets.map((t) => ({
+    dataSet: pilot.dataSet,
+    learner: pilot.learner,
+    pilot: pilot.size,
+    draw: pilot.draw,
+    target: t.size,
+    ratio: t.size / pilot.largest,
+    truth: t.truth,
+    truthAtLargest: pilot.truthAtLargest,
+    scoreAtLargest: pilot.scoreAtLargest,
+    ...forecastCase(pilot, calibration, t.size),
+  }));
+}
+
+/** Each data set forecast with a calibration learned from the others (both its learners left out). */
+function leaveOneOut(
+  variant: Variant,
+  learnSpread: boolean,
+): { rows: CaseResult[]; calibrations: Record<string, GainCalibration | null> } {
+  const rows: CaseResult[] = [];
+  const calibrations: Record<string, GainCalibration | null> = {};
+  for (const dataSet of [...new Set(usable.map((p) => p.dataSet))]) {
+    const calibration = learnCalibration(
+      usable.filter((p) => p.dataSet !== dataSet && learnable(p)),
+      variant,
+      learnSpread,
+    );
+    calibrations[dataSet] = calibration;
+    for (const p of usable.filter((q) => q.dataSet === dataSet)) rows.push(...results(p, calibration));
+  }
+  return { rows, calibrations };
+}
+
+// ---------------------------------------------------------------------------------------------
+// 3. The variants, then the chosen one
+
+const variants: Variant[] = [
+  { name: "families' own extrapolation (before)", terms: [], constrained: false },
+  { name: "own gain, calibrated in the large", terms: ["own"], constrained: true },
+  { name: "chord + distance left, calibrated in the large", terms: ["chord", "headroom"], constrained: true },
+  { name: "slope + distance left, calibrated in the large", terms: ["slope", "headroom"], constrained: true },
+  {
+    name: "chord + slope + distance left, calibrated in the large",
+    terms: ["chord", "slope", "headroom"],
+    constrained: true,
+  },
+  { name: "own + slope + distance left, least squares", terms: ["own", "slope", "headroom"], constrained: false },
+  {
+    name: "own + slope + distance left, calibrated in the large",
+    terms: ["own", "slope", "headroom"],
+    constrained: true,
+  },
+  {
+    name: "own + chord + slope + distance left, calibrated in the large",
+    terms: ["own", "chord", "slope", "headroom"],
+    constrained: true,
+  },
+];
+const chosen = variants.find(
+  (v) => v.name === (option("--variant") ?? "slope + distance left, calibrated in the large"),
+) as Variant;
+const groups: [string, (r: CaseResult) => boolean][] = [
+  ["logistic", (r) => r.learner === "logistic"],
+  ["forest", (r) => r.learner === "forest"],
+  ["ridge and knn (R²)", (r) => r.learner === "ridge" || r.learner === "knn-regression"],
+];
+const pp = (v: number): string => (100 * v).toFixed(2);
+const line = (s: ReturnType<typeof summarise>): string =>
+  `MAE ${pp(s.meanAbsoluteError)} (floor ${pp(s.floor)}), signed ${pp(s.signedError)}, gain ratio ${s.gainRatio.toFixed(2)}, coverage ${(100 * s.coverage).toFixed(0)}%, worst ${s.worstDataSet.name} ${(100 * s.worstDataSet.meanAbsoluteError).toFixed(1)}`;
+const dataSets = new Set(usable.map((p) => p.dataSet)).size;
+const caseCount = usable.reduce((s, p) => s + p.targets.length, 0);
+console.log(`${usable.length} pilot curves, ${caseCount} cases, ${dataSets} data sets`);
+let chosenRun: ReturnType<typeof leaveOneOut> | undefined;
+for (const variant of variants) {
+  const run = leaveOneOut(variant, variant === chosen);
+  if (variant === chosen) chosenRun = run;
+  console.log(`\n${variant.name} (leave-one-data-set-out${variant === chosen ? ", spread learned" : ", spread 1"}):`);
+  for (const [label, keep] of groups) console.log(`  ${label.padEnd(20)} ${line(summarise(run.rows.filter(keep)))}`);
+}
+const { rows, calibrations } = chosenRun as ReturnType<typeof leaveOneOut>;
+console.log(`\nchosen: ${chosen.name} (leave-one-data-set-out)`);
+for (const [label, keep] of groups) console.log(summaryTable(rows.filter(keep), `\n${label}`).join("\n"));
+const full = learnCalibration(usable.filter(learnable), chosen, true) as GainCalibration;
+const rounded: GainCalibration = {
+  ownWeight: Number(full.ownWeight.toFixed(4)),
+  chordWeight: Number(full.chordWeight.toFixed(4)),
+  slopeWeight: Number(full.slopeWeight.toFixed(4)),
+  headroomWeight: Number(full.headroomWeight.toFixed(4)),
+  spread: full.spread,
+};
+console.log(`\nlearned from every data set: ${JSON.stringify(rounded)}`);
+
+// ---------------------------------------------------------------------------------------------
+// 4. Writing
+
+const learnedPilots = usable.filter(learnable);
+const learnedCases = learnedPilots.reduce((s, p) => s + p.targets.length, 0);
+const learnedDataSets = new Set(learnedPilots.map((p) => p.dataSet)).size;
+if (write) {
+  writeFileSync(`${corpusDir}/leave-one-out.json`, JSON.stringify(calibrations, null, 1) + "\n");
+  writeFileSync(
+    "src/forecast/corpusCalibration.ts",
+    `/**
+ * The forecast's learned continuation (gainCorrection.ts), written by
+ * \`npx tsx scripts/forecast-corpus/calibrate.ts --write\`; do not edit by hand.
+ *
+ * Learned from the ${learnedPilots.length} classification pilot curves (${learnedCases} pilot-to-target cases) of the
+ * ${learnedDataSets} classification data sets of fixtures/forecast-corpus (logistic regression and random
+ * forest, accuracy), pilots of 50 to 400 rows, targets 2 to 16 times the pilot; variant
+ * "${chosen.name}". Checked leave-one-data-set-out: see the README's forecast section.
+ */
+import type { GainCalibration } from "./gainCorrection.js";
+
+export const corpusCalibration: GainCalibration = ${JSON.stringify(rounded)
+      .replace(/"(\w+)":/g, "$1: ")
+      .replace(/,/g, ", ")
+      .replace("{", "{ ")
+      .replace("}", " }")};
+`,
+  );
+}

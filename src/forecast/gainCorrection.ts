@@ -1,0 +1,89 @@
+/**
+ * The forecast's continuation beyond the largest measured size, learned from a corpus of measured
+ * learning curves (fixtures/forecast-corpus; its README says what they are and how they were
+ * measured).
+ *
+ * Why. Families fitted to a short, noisy pilot curve misjudge the gain still to come: saturating
+ * forms (exponential, Weibull, MMF) level off too early far out, the no-gain baseline predicts none,
+ * and a family that bends up at a lucky last point over-forecasts (the learning-curve literature
+ * reports the same: Mohr, Viering, Loog and van Rijn 2022, "LCDB 1.0"; Viering and Loog 2022, "The
+ * shape of learning curves: a review"). On the corpus, the gain the families' weighted fit forecasts
+ * from the largest measured size L was 0.7 of the gain measured later.
+ *
+ * What. Beyond L a draw (and the point forecast) continues from its family's value at L by
+ *
+ *     gain(n) = o · (m(n) − m(L)) + (c · chord + s · slope + h · (best − m(L))) · ln(n / L)
+ *
+ * where m(n) − m(L) is the gain its family's own formula forecasts, chord = (m(L) − m(n₁)) / ln(L / n₁)
+ * its average rise per unit of ln n over the measured range (n₁ the smallest measured size), slope
+ * its rise per unit of ln n at L, and best − m(L) the distance left to the metric's best value
+ * (accuracy 1, R² 1, an error 0). The weights are a stacked regression (Wolpert 1992, "Stacked
+ * generalization"; Breiman 1996, "Stacked regressions") fitted to the corpus's classification
+ * curves by weighted least squares (each data set weighing the same), constrained so that the
+ * summed forecast gain equals the summed gain measured later (calibration in the large: a least
+ * squares fit alone shrinks the gain, because a pilot whose last sizes happened to score high also
+ * shows a steep end). `spread` multiplies every family's extrapolation error so that the 80%
+ * intervals hold about 80% of the later scores. scripts/forecast-corpus/calibrate.ts learns them and
+ * compares the variants leave-one-data-set-out; the one shipped keeps the slope at L and the distance
+ * left (o = c = 0): the family's own gain and the chord did not lower the error further.
+ *
+ * A family chosen with `--family` is used as it extrapolates, without this continuation.
+ */
+import { corpusCalibration } from "./corpusCalibration.js";
+
+export interface GainCalibration {
+  /** o: weight of the family's own gain m(n) − m(L). */
+  ownWeight: number;
+  /** c: weight of the chord (the measured rise per unit of ln n). */
+  chordWeight: number;
+  /** s: weight of the family's own slope per unit of ln n at the largest measured size. */
+  slopeWeight: number;
+  /** h: share of the distance left to the best value gained per unit of ln n. */
+  headroomWeight: number;
+  /** Multiplier of every family's extrapolation error τ. */
+  spread: number;
+}
+
+/** A draw's continuation beyond the largest measured size (see the file comment). */
+export interface Continuation {
+  ownWeight: number;
+  chordWeight: number;
+  slopeWeight: number;
+  headroomWeight: number;
+  /** n₁: the smallest measured size. */
+  smallestSize: number;
+  /** The metric's best value in oriented units; null when unknown (the distance term is then left out). */
+  best: number | null;
+}
+
+/** The calibration shipped with headroom (learned from the whole corpus). */
+export const shippedCalibration: GainCalibration = corpusCalibration;
+
+/** Step in ln n of the central difference that gives a family's slope at L. */
+const slopeStep = 0.01;
+
+/**
+ * The learned gain of a curve from the largest measured size L to n: `model(n)` is the family's
+ * value at size n.
+ */
+export function continuedGain(
+  continuation: Continuation,
+  model: (trainingSize: number) => number,
+  largestMeasured: number,
+  trainingSize: number,
+): number {
+  const atLargest = model(largestMeasured);
+  const atSmallest = model(continuation.smallestSize);
+  const slope =
+    (model(largestMeasured * Math.exp(slopeStep)) - model(largestMeasured * Math.exp(-slopeStep))) / (2 * slopeStep);
+  const chord =
+    largestMeasured > continuation.smallestSize
+      ? (atLargest - atSmallest) / Math.log(largestMeasured / continuation.smallestSize)
+      : 0;
+  const left = continuation.best === null ? 0 : Math.max(0, continuation.best - atLargest);
+  return (
+    continuation.ownWeight * (model(trainingSize) - atLargest) +
+    (continuation.chordWeight * chord + continuation.slopeWeight * slope + continuation.headroomWeight * left) *
+      Math.log(trainingSize / largestMeasured)
+  );
+}

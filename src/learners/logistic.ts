@@ -20,8 +20,8 @@
  *    Wolfe conditions, as for two classes). The intercepts are determined only up to a common
  *    constant; they are returned summing to zero, as scikit-learn's. The sums over the rows run in a
  *    small WebAssembly kernel ({@link SoftmaxLoss}), faster than plain JavaScript (`npm run bench`).
- *    The optimiser is src/numerics/lbfgs.ts.
- *  - More feature columns than rows (wide data): the same objective is minimised in the rows' own
+ *    The optimizer is src/numerics/lbfgs.ts.
+ *  - More feature columns than rows (wide data): the same objective is minimized in the rows' own
  *    n-dimensional space ({@link rowSpace}), by L-BFGS for two classes too, and the coefficients are
  *    mapped back to the columns; the work grows with n² · p instead of p² or p³.
  *  - Both stop as scikit-learn 1.2's lbfgs does with its defaults (`tol` 1e-4 and SciPy's L-BFGS-B
@@ -633,7 +633,7 @@ class MultinomialObjective implements Objective {
 }
 
 /**
- * The optimiser's settings for a fit on n rows: the gradient of scikit-learn's objective F = n·f at
+ * The optimizer's settings for a fit on n rows: the gradient of scikit-learn's objective F = n·f at
  * most `tolerance` means f's at most tolerance / n; the relative-decrease test judges F. The vectors
  * live in a work array of this thread (scratch.ts), so the solution is read before the next fit.
  */

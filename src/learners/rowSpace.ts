@@ -7,7 +7,7 @@
  * so the optimum lies in the row space of X (the representer theorem: Kimeldorf and Wahba 1971;
  * Schölkopf, Herbrich and Smola 2001). With the Gram matrix K = X Xᵀ factored as K = F Fᵀ (pivoted
  * Cholesky, F of n × r, r ≤ n), the rows of F are the coordinates of the rows of X in an orthonormal
- * basis of that space: X w = F ŵ and ‖w‖ = ‖ŵ‖ for w = Xᵀα with ŵ = Fᵀα. Fitting the same penalised
+ * basis of that space: X w = F ŵ and ‖w‖ = ‖ŵ‖ for w = Xᵀα with ŵ = Fᵀα. Fitting the same penalized
  * model on the n × r features F therefore gives the same objective at every step, and the fitted
  * ŵ maps back to the coefficients on the original columns through {@link RowSpace.lift}. The work is
  * the Gram matrix, n² · p / 2 products, instead of terms in p² or p³.

@@ -18,7 +18,7 @@ export interface LbfgsOptions {
    * max(|F|, 1) (SciPy's `ftol`); 0 turns the test off.
    */
   relativeDecrease: number;
-  /** The factor from the minimised f to the objective F the relative-decrease test judges. @default 1 */
+  /** The factor from the minimized f to the objective F the relative-decrease test judges. @default 1 */
   objectiveScale?: number;
   /** Most iterations. */
   maxIterations: number;
@@ -202,7 +202,7 @@ export function minimizeLbfgs(objective: Objective, start: Float64Array, options
 }
 
 // The loops over the parameters live in small functions of their own: V8 optimises a small function
-// after a few calls, while a loop inside the optimiser's long one waited for a slow compilation of
+// after a few calls, while a loop inside the optimizer's long one waited for a slow compilation of
 // the whole, running unoptimised (boxing every number) for much of each thread's first fits.
 
 /** Sets `out` = −g. */

@@ -1,13 +1,13 @@
 /**
  * The dense linear algebra of the learners and the curve fitter, on row-major Float64Arrays: the
- * Cholesky factorisation of a symmetric positive-definite matrix (optionally damped) and its solves
+ * Cholesky factorization of a symmetric positive-definite matrix (optionally damped) and its solves
  * (ridge regression, linear discriminant analysis, the logistic Newton step, Levenberg–Marquardt), the
  * Gram matrix of a block of rows (the learners' n-dimensional forms for wide data), and a minimum-norm
  * solve by symmetric eigendecomposition for the rare singular case.
  *
  * Written by hand: the learners' loops run on raw Float64Arrays, where ml-matrix goes through method
  * calls per element, and its Cholesky wants an exactly symmetric matrix. (The curve fitter's small
- * systems would not need the speed; they share this code so that there is one factorisation.)
+ * systems would not need the speed; they share this code so that there is one factorization.)
  */
 
 /**
@@ -238,9 +238,9 @@ export interface PivotedCholesky {
 }
 
 /**
- * Cholesky factorisation with diagonal pivoting of a symmetric positive-semidefinite `n × n` matrix
+ * Cholesky factorization with diagonal pivoting of a symmetric positive-semidefinite `n × n` matrix
  * (Higham, "Accuracy and Stability of Numerical Algorithms", 2nd ed., algorithm 10.22; LAPACK's
- * dpstrf): at each step the largest remaining diagonal entry is the pivot, and the factorisation
+ * dpstrf): at each step the largest remaining diagonal entry is the pivot, and the factorization
  * stops when it is at most `relativeTolerance` · the largest diagonal entry of K (dpstrf's default
  * is n · ε), the rest of K being treated as round-off. Reads only `k`.
  */

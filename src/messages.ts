@@ -165,9 +165,13 @@ export const message = {
   trainerWithLearner: (option: string) =>
     `${option} cannot be used with --trainer: the trainer program is the model (set its settings inside it)`,
   badTimeout: (text: string) => `--trainer-timeout: '${clip(text)}' is not a positive number of seconds`,
-  unknownPlace: (text: string) => `--on: unknown place '${clip(text)}' (known: local, slurm)`,
-  slurmNeedsFolder: () => `--on slurm needs --tasks-dir naming a folder on a file system the cluster's nodes share`,
-  slurmOnlyOption: (option: string) => `${option} is only used with --on slurm`,
+  unknownPlace: (text: string) => `unknown place '${clip(text)}' (known: local, slurm)`,
+  slurmNeedsFolder: (): ErrorText => (n: OptionNamer) =>
+    `${n("on")} slurm needs ${n("tasksDir")} naming a folder on a file system the cluster's nodes share`,
+  slurmOnlyOption:
+    (option: string): ErrorText =>
+    (n: OptionNamer) =>
+      `${n(option)} is only used with ${n("on")} slurm`,
   sbatchMissing: () =>
     `--on slurm: sbatch is not on PATH; run headroom on a SLURM login node (or load the slurm module) first`,
   sbatchFailed: (detail: string) =>

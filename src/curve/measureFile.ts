@@ -34,7 +34,7 @@ export async function measureFile(
   // The task (classes or a numeric target) decides how the label column is read.
   const { task } = resolveMeasureOptions(options);
   const on = options.on ?? "local";
-  if (on !== "local" && on !== "slurm") throw new UsageError(message.unknownPlace(on));
+  if (on !== "local" && on !== "slurm") throw new UsageError(message.unknownPlace(on), { option: "on" });
   let measure: MeasureOptions = options;
   if (on === "slurm") {
     if (options.tasksDir === undefined) throw new UsageError(message.slurmNeedsFolder());
@@ -52,9 +52,9 @@ export async function measureFile(
     // The tasks folder keeps the finished tasks: no checkpoint besides it.
     measure = { ...options, runTasks, checkpoint: undefined };
   } else {
-    if (options.tasksDir !== undefined) throw new UsageError(message.slurmOnlyOption("--tasks-dir"));
-    if (options.slurmOptions !== undefined) throw new UsageError(message.slurmOnlyOption("--slurm-options"));
-    if (options.submitOnly) throw new UsageError(message.slurmOnlyOption("--submit-only"));
+    if (options.tasksDir !== undefined) throw new UsageError(message.slurmOnlyOption("tasksDir"));
+    if (options.slurmOptions !== undefined) throw new UsageError(message.slurmOnlyOption("slurmOptions"));
+    if (options.submitOnly) throw new UsageError(message.slurmOnlyOption("submitOnly"));
   }
   return measureRead(file, task, measure, options);
 }

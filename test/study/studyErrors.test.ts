@@ -54,4 +54,12 @@ describe("errors about an option, named by each front end", () => {
     expect(fit).toBeInstanceOf(FitError);
     expect((fit as FitError).message).toBe("no points");
   });
+
+  it("name the cluster options in the study's keys: measure.tasksDir, measure.on", () => {
+    const error = new UsageError(message.slurmOnlyOption("tasksDir"));
+    expect(error.describe(commandLineNames)).toBe("--tasks-dir is only used with --on slurm");
+    expect((inStudyTerms(error, "s.json") as DataError).message).toBe(
+      "s.json: measure.tasksDir is only used with measure.on slurm",
+    );
+  });
 });

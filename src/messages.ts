@@ -64,9 +64,9 @@ export const message = {
   byRunsNeedsGroup: (): ErrorText => (n: OptionNamer) =>
     `needs ${n("group")} naming the column that says which run each row came from`,
   fewRunsFallback: (column: string, runs: number, splitter: string, byRuns: boolean) =>
-    `--group '${clip(column)}' has only ${runs} run${runs === 1 ? "" : "s"}: runs cannot be kept whole across training and test with fewer than 3, so rows are split by ${splitter}${byRuns ? " and training sizes count rows, not runs" : ""}; scores may be optimistic, since rows of one run can be in both training and test`,
+    `the run column '${clip(column)}' has only ${runs} run${runs === 1 ? "" : "s"}: runs cannot be kept whole across training and test with fewer than 3, so rows are split by ${splitter}${byRuns ? " and training sizes count rows, not runs" : ""}; scores may be optimistic, since rows of one run can be in both training and test`,
   foldsAboveRuns: (folds: number, runs: number, column: string) =>
-    `--folds ${folds} is more than the ${runs} runs in '${clip(column)}': leave-one-run-out (${runs} folds) is used instead`,
+    `${folds} folds are more than the ${runs} runs in '${clip(column)}': leave-one-run-out (${runs} folds) is used instead`,
   taskMismatch:
     (name: string, kind: string, task: string, what: string): ErrorText =>
     (n: OptionNamer) =>
@@ -86,16 +86,16 @@ export const message = {
   metricUndefinedEverywhere: (metric: string, reason: string) =>
     `${metric} is undefined on every test fold (${reason}); choose another metric or more folds per class`,
   metricUndefinedSome: (metric: string, skipped: number, total: number, reason: string) =>
-    `--metric ${metric} is undefined on ${skipped} of ${total} test folds (first: ${reason}); their fits are left out, and each point's repeatOfScore says which repeat each score is from`,
+    `the metric ${metric} is undefined on ${skipped} of ${total} test folds (first: ${reason}); their fits are left out, and each point's repeatOfScore says which repeat each score is from`,
   emptyColumns: (names: string[]) =>
     `${names.length === 1 ? "column" : "columns"} ${names
       .slice(0, 5)
       .map((n) => `'${clip(n)}'`)
       .join(
         ", ",
-      )}${names.length > 5 ? ` and ${names.length - 5} more` : ""} ${names.length === 1 ? "has" : "have"} no value in any row and add${names.length === 1 ? "s" : ""} nothing to the model; check the file, or --ignore ${names.length === 1 ? "it" : "them"}`,
+      )}${names.length > 5 ? ` and ${names.length - 5} more` : ""} ${names.length === 1 ? "has" : "have"} no value in any row and add${names.length === 1 ? "s" : ""} nothing to the model; check the file, or ignore ${names.length === 1 ? "it" : "them"} (a column left out of the features)`,
   tuneWithoutGrid: (learner: string) =>
-    `--tune: learner '${learner}' has no tuning grid yet, so it was measured with its default settings`,
+    `tuning: learner '${learner}' has no tuning grid yet, so it was measured with its default settings`,
   /** A command-line option's problem, named as the command line spells it (`--repeats: ...`). */
   optionProblem: (flag: string, detail: string) => `${flag}: ${detail}`,
   badInteger: (text: string, min: number) => `'${clip(text)}' is not a whole number of at least ${min}`,

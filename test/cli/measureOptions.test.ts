@@ -120,7 +120,7 @@ describe("headroom measure options", () => {
     // Four pilot cruises of 30 samples: leave-one-cruise-out, pools of 3 cruises, sizes 1, 2, 3 cruises.
     expect(curve).toMatchObject({ splitter: "leave-one-group-out", folds: 4, unit: "runs", runs: 4, rowsPerRun: 30 });
     expect(curve.points.map((p: { trainingSize: number }) => p.trainingSize)).toEqual([1, 2, 3]);
-    expect(stderr).toContain("warning: --folds 5 is more than the 4 runs in 'cruise'");
+    expect(stderr).toContain("warning: 5 folds are more than the 4 runs in 'cruise'");
   });
 
   it.each([

@@ -60,7 +60,7 @@ describe("measureCurve", () => {
     const data = { ...base, features, featureNames: ["truth", "id", "blank", "once"] };
     const curve = await measureCurve(data, "fake.csv", { repeats: 1, trainingSizes: [20, 40], learner: "fake" });
     expect(curve.warnings).toEqual([
-      "column 'blank' has no value in any row and adds nothing to the model; check the file, or --ignore it",
+      "column 'blank' has no value in any row and adds nothing to the model; check the file, or ignore it (a column left out of the features)",
     ]);
     const clean = await measureCurve(dataset(), "fake.csv", { repeats: 1, trainingSizes: [20, 40], learner: "fake" });
     expect(clean.warnings).toBeUndefined();

@@ -193,7 +193,7 @@ describe("runs kept whole (--group)", () => {
     );
     expect(curve).toMatchObject({ splitter: "leave-one-group-out", folds: 4 });
     expect(curve.warnings).toEqual([
-      "--folds 5 is more than the 4 runs in 'run': leave-one-run-out (4 folds) is used instead",
+      "5 folds are more than the 4 runs in 'run': leave-one-run-out (4 folds) is used instead",
     ]);
   });
 
@@ -205,7 +205,7 @@ describe("runs kept whole (--group)", () => {
       { group: "run" },
     );
     expect(curve).toMatchObject({ splitter: "stratified-k-fold", folds: 5, unit: "rows", runs: 2 });
-    expect(curve.warnings?.[0]).toMatch(/^--group 'run' has only 2 runs: .* scores may be optimistic/);
+    expect(curve.warnings?.[0]).toMatch(/^the run column 'run' has only 2 runs: .* scores may be optimistic/);
   });
 
   it.each<[MeasureOptions, typeof UsageError, string]>([
@@ -240,7 +240,7 @@ describe("runs kept whole (--group)", () => {
     expect(curve.points[0].scores).toEqual(new Array(18).fill(1));
     expect(curve.points[0].repeatOfScore).toEqual([...new Array(9).fill(0), ...new Array(9).fill(1)]);
     expect(curve.warnings).toEqual([
-      "--metric roc_auc is undefined on 2 of 20 test folds (first: ROC AUC needs every class in the test fold; class 1 is absent); their fits are left out, and each point's repeatOfScore says which repeat each score is from",
+      "the metric roc_auc is undefined on 2 of 20 test folds (first: ROC AUC needs every class in the test fold; class 1 is absent); their fits are left out, and each point's repeatOfScore says which repeat each score is from",
     ]);
   });
 });
@@ -353,7 +353,7 @@ describe("tuning (tune: true)", () => {
     expect(curve.tuning).toBeUndefined();
     expect(curve.points[0].settingsOfScore).toBeUndefined();
     expect(curve.warnings).toEqual([
-      "--tune: learner 'recorder' has no tuning grid yet, so it was measured with its default settings",
+      "tuning: learner 'recorder' has no tuning grid yet, so it was measured with its default settings",
     ]);
   });
 });

@@ -148,11 +148,11 @@ describe("chooseDesign", () => {
 
   it("warns when the folds exceed the runs, and falls back to rows with fewer than 3 runs", () => {
     expect(chooseDesign({ ...base, folds: 5, groups: runsOf(4), groupColumn: "cruise" }).warnings).toEqual([
-      "--folds 5 is more than the 4 runs in 'cruise': leave-one-run-out (4 folds) is used instead",
+      "5 folds are more than the 4 runs in 'cruise': leave-one-run-out (4 folds) is used instead",
     ]);
     const fallback = chooseDesign({ ...base, folds: 5, groups: runsOf(2), groupColumn: "cruise", byRuns: true });
     expect(fallback).toMatchObject({ grouped: false, byRuns: false, runs: 2 });
-    expect(fallback.warnings[0]).toContain("--group 'cruise' has only 2 runs");
+    expect(fallback.warnings[0]).toContain("the run column 'cruise' has only 2 runs");
     expect(fallback.warnings[0]).toContain("training sizes count rows, not runs; scores may be optimistic");
   });
 

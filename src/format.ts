@@ -80,7 +80,7 @@ export function formatOdds(level: number): string {
 }
 
 /** The text with its first letter in capitals. */
-export function capitalise(text: string): string {
+export function capitalize(text: string): string {
   return text.charAt(0).toUpperCase() + text.slice(1);
 }
 

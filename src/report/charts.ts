@@ -22,7 +22,7 @@ import {
   describeMetric,
   formatChance,
   formatCount,
-  capitalise,
+  capitalize,
   likelyRange,
   formatMoney,
   formatScore,
@@ -195,7 +195,7 @@ function scoreTable(decision: DecisionFile, info: MetricInfo): ChartTable {
       "Further runs",
       "Training samples",
       `Expected ${info.inSentence}`,
-      capitalise(likelyRange(decision.level)),
+      capitalize(likelyRange(decision.level)),
       ...(hasTarget ? ["Chance of reaching target"] : []),
     ],
     rows: rows.map((row) => [
@@ -223,7 +223,7 @@ function netValueTable(decision: DecisionFile, currency: string | undefined): Ch
       "Further runs",
       "Cost",
       "Expected net value",
-      ...(hasInterval ? [capitalise(likelyRange(decision.level))] : []),
+      ...(hasInterval ? [capitalize(likelyRange(decision.level))] : []),
       "Within budget and deadline",
     ],
     rows: rows.map((row) => [

@@ -20,7 +20,7 @@ import {
   describeMetric,
   formatCount,
   formatExactScore,
-  capitalise,
+  capitalize,
   formatOdds,
   likelyRange,
   formatScore,
@@ -73,7 +73,7 @@ export function learningCurveChart(
     fits: "One trial model",
     measured: "Average, with typical spread",
     curve: "Fitted curve",
-    band: capitalise(levelText),
+    band: capitalize(levelText),
   };
 
   // Data, one array per layer.

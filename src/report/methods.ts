@@ -8,7 +8,7 @@ import { learnedForecastText } from "./forecastMethodText.js";
 import { curveFamilies } from "../fit/families.js";
 import {
   likelyRange,
-  capitalise,
+  capitalize,
   countInWords,
   formatCount,
   formatLevel,
@@ -114,7 +114,7 @@ export function methodsSection(input: ReportInput, info: MetricInfo, backtestCha
   const design = designInWords(curve);
   const source = curve.source ? `, file ${curve.source.file}` : "";
   const measurement = [
-    `${capitalise(info.inSentence)} was measured by ${design} on subsamples of ${sizes.length} training sizes ` +
+    `${capitalize(info.inSentence)} was measured by ${design} on subsamples of ${sizes.length} training sizes ` +
       `from ${formatCount(Math.min(...sizes))} to ${formatCount(Math.max(...sizes))} samples, drawn from a ` +
       `data set of ${formatCount(curve.rows)} rows${source}` +
       `${curve.learner ? `, with the learner ${curve.learner}` : ""}` +
@@ -145,7 +145,7 @@ export function methodsSection(input: ReportInput, info: MetricInfo, backtestCha
     cited.add("domhan");
     cited.add("bates");
     fitting.push(
-      `${capitalise(countInWords(weighted.length))} learning-curve families were fitted (n is the number of training samples): ` +
+      `${capitalize(countInWords(weighted.length))} learning-curve families were fitted (n is the number of training samples): ` +
         weighted
           .sort((a, b) => b[1] - a[1])
           .map(([name, w]) => `${familyInWords(name)}, weight ${formatNumber(100 * w, 0)}%`)

@@ -15,7 +15,7 @@ import {
   type ChartOptions,
   type Layer,
 } from "./chartOptions.js";
-import { capitalise, describeMetric, formatMoney, formatOdds, formatProbability, likelyRange } from "../format.js";
+import { capitalize, describeMetric, formatMoney, formatOdds, formatProbability, likelyRange } from "../format.js";
 import { planFacts } from "./planFacts.js";
 import { chartConfig, palette } from "./theme.js";
 
@@ -208,13 +208,13 @@ export function netValueChart(decision: DecisionFile, options: ChartOptions = {}
           {
             field: "netValueLower",
             type: "quantitative" as const,
-            title: `${capitalise(likelyRange(decision.level))}: from`,
+            title: `${capitalize(likelyRange(decision.level))}: from`,
             format: ",.0f",
           },
           {
             field: "netValueUpper",
             type: "quantitative" as const,
-            title: `${capitalise(likelyRange(decision.level))}: to`,
+            title: `${capitalize(likelyRange(decision.level))}: to`,
             format: ",.0f",
           },
         ]

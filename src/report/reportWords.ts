@@ -7,7 +7,7 @@ import { beyondLimitsTag } from "../weigh/decisionWords.js";
 import type { ForecastFile, Projection } from "../forecast/forecastFile.js";
 import type { DecisionFile, DecisionRow } from "../weigh/decisionFile.js";
 import {
-  capitalise,
+  capitalize,
   formatChance,
   countInWords,
   describeMetric,
@@ -175,7 +175,7 @@ export function headline(input: ReportInput): string {
     (best, m) => (best === undefined || m.trainingSize > best.trainingSize ? m : best),
     undefined,
   );
-  if (!projection) return `${capitalise(info.inSentence)} was measured; no projection was made.`;
+  if (!projection) return `${capitalize(info.inSentence)} was measured; no projection was made.`;
   const style = headlineStyle(info, [
     [measured?.mean ?? projection.expected, projection.expected],
     [projection.expected, projection.lower],

@@ -19,7 +19,7 @@ import {
   formatChance,
   formatCount,
   formatExactScore,
-  capitalise,
+  capitalize,
   formatOdds,
   likelyRange,
   formatProbability,
@@ -101,8 +101,8 @@ export function scoreChart(
     { field: "runs", type: "quantitative" as const, title: "Further runs" },
     { field: "trainingSize", type: "quantitative" as const, title: "Training samples", format: ",.0f" },
     { field: "expected", type: "quantitative" as const, title: `Expected ${info.inSentence}`, format: tooltipFormat },
-    { field: "lower", type: "quantitative" as const, title: `${capitalise(levelText)}: from`, format: tooltipFormat },
-    { field: "upper", type: "quantitative" as const, title: `${capitalise(levelText)}: to`, format: tooltipFormat },
+    { field: "lower", type: "quantitative" as const, title: `${capitalize(levelText)}: from`, format: tooltipFormat },
+    { field: "upper", type: "quantitative" as const, title: `${capitalize(levelText)}: to`, format: tooltipFormat },
   ];
   const scoreY = (field: string) => ({
     field,

@@ -248,12 +248,10 @@ function fixedShrinkageCovariance(block: Float64Array, n: number, p: number, shr
 }
 
 /**
- * scikit-learn's `_cov(X, "auto")`: standardize the columns (StandardScaler: population variance with
- * the two-pass rounding correction, scale 1 for a column constant by its round-off test), take the
- * Ledoit–Wolf shrunk covariance of the result (sklearn.covariance.ledoit_wolf), and scale it back.
- * Overwrites `block`.
+ * StandardScaler on `block` in place: population variance with the two-pass rounding correction, and
+ * scale 1 for a column constant by its round-off test. Returns the scales.
  */
-function ledoitWolfCovariance(block: Float64Array, n: number, p: number): ShrunkCovariance {
+function standardizeColumns(block: Float64Array, n: number, p: number): Float64Array {
   const eps = Number.EPSILON;
   const scale = new Float64Array(p);
   const mean = columnMeans(block, n, p);
@@ -270,6 +268,17 @@ function ledoitWolfCovariance(block: Float64Array, n: number, p: number): Shrunk
     scale[j] = variance <= bound ? 1 : Math.sqrt(variance);
   }
   for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) block[i * p + j] = (block[i * p + j] - mean[j]) / scale[j];
+  return scale;
+}
+
+/**
+ * scikit-learn's `_cov(X, "auto")`: standardize the columns (StandardScaler: population variance with
+ * the two-pass rounding correction, scale 1 for a column constant by its round-off test), take the
+ * Ledoit–Wolf shrunk covariance of the result (sklearn.covariance.ledoit_wolf), and scale it back.
+ * Overwrites `block`.
+ */
+function ledoitWolfCovariance(block: Float64Array, n: number, p: number): ShrunkCovariance {
+  const scale = standardizeColumns(block, n, p);
 
   const s = centeredCovariance(block, n, p); // also centers `block`
   let floor: number;
@@ -435,22 +444,7 @@ function fixedShrinkageWide(block: Float64Array, n: number, p: number, shrinkage
  * class's Gram matrix, and the block left holding C (the centred standardized rows scaled back).
  */
 function ledoitWolfWide(block: Float64Array, n: number, p: number): WideShrunkCovariance {
-  const eps = Number.EPSILON;
-  const scale = new Float64Array(p);
-  const mean = columnMeans(block, n, p);
-  for (let j = 0; j < p; j++) {
-    let squares = 0;
-    let residualSum = 0;
-    for (let i = 0; i < n; i++) {
-      const d = block[i * p + j] - mean[j];
-      squares += d * d;
-      residualSum += d;
-    }
-    const variance = (squares - (residualSum * residualSum) / n) / n;
-    const bound = n * eps * variance + (n * mean[j] * eps) ** 2;
-    scale[j] = variance <= bound ? 1 : Math.sqrt(variance);
-  }
-  for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) block[i * p + j] = (block[i * p + j] - mean[j]) / scale[j];
+  const scale = standardizeColumns(block, n, p);
   const again = columnMeans(block, n, p);
   for (let i = 0; i < n; i++) for (let j = 0; j < p; j++) block[i * p + j] -= again[j];
 

@@ -8,7 +8,8 @@
  * functions (`drawnValue` in drawCurves.ts for a drawn curve, `expectedValue` here for the point
  * forecast), so a size the forecast did not project to gets exactly the value it would have had.
  *
- * A stored curve is the drawn curve with its family replaced by the family's name: any field the
+ * A stored curve is the drawn curve with its family replaced by the family's name and without its
+ * continuation, which every draw shares and the file keeps once (`continuation`); any other field the
  * draw gains travels with it unchanged.
  */
 import { bestScore, findMetric } from "../curve/metrics.js";

@@ -33,7 +33,7 @@ import { quantileSorted } from "../../src/forecast/quantile.js";
 import { continuedGain, type Continuation, type GainCalibration } from "../../src/forecast/gainCorrection.js";
 import { bestScore, findMetric } from "../../src/curve/metrics.js";
 import { readCorpus } from "./corpus.js";
-import { corpusPilots, summarise, summaryTable, type CaseResult, type CorpusPilot } from "./cases.js";
+import { caseOf, corpusPilots, summarise, summaryTable, type CaseResult, type CorpusPilot } from "./cases.js";
 
 const argv = process.argv.slice(2);
 function option(name: string): string | undefined {
@@ -299,15 +299,7 @@ function learnCalibration(
 
 function results(pilot: CorpusPilot, calibration: GainCalibration | null): CaseResult[] {
   return pilot.targets.map((t) => ({
-    dataSet: pilot.dataSet,
-    learner: pilot.learner,
-    pilot: pilot.size,
-    draw: pilot.draw,
-    target: t.size,
-    ratio: t.size / pilot.largest,
-    truth: t.truth,
-    truthAtLargest: pilot.truthAtLargest,
-    scoreAtLargest: pilot.scoreAtLargest,
+    ...caseOf(pilot, t),
     ...forecastCase(pilot, calibration, t.size),
   }));
 }

@@ -174,6 +174,24 @@ export function summaryTable(results: readonly CaseResult[], title: string): str
   return out;
 }
 
+/** What a case is, before its forecast: the pilot, the target and the truths. */
+export function caseOf(
+  pilot: CorpusPilot,
+  t: { size: number; truth: number },
+): Omit<CaseResult, "forecast" | "lower" | "upper"> {
+  return {
+    dataSet: pilot.dataSet,
+    learner: pilot.learner,
+    pilot: pilot.size,
+    draw: pilot.draw,
+    target: t.size,
+    ratio: t.size / pilot.largest,
+    truth: t.truth,
+    truthAtLargest: pilot.truthAtLargest,
+    scoreAtLargest: pilot.scoreAtLargest,
+  };
+}
+
 /** The cases of one pilot, forecast by `forecastCurve` itself with the given calibration. */
 export function forecastPilot(
   pilot: CorpusPilot,
@@ -189,15 +207,7 @@ export function forecastPilot(
   return pilot.targets.map((t) => {
     const p = forecast.projections.find((q) => q.trainingSize === t.size) as Projection;
     return {
-      dataSet: pilot.dataSet,
-      learner: pilot.learner,
-      pilot: pilot.size,
-      draw: pilot.draw,
-      target: t.size,
-      ratio: t.size / pilot.largest,
-      truth: t.truth,
-      truthAtLargest: pilot.truthAtLargest,
-      scoreAtLargest: pilot.scoreAtLargest,
+      ...caseOf(pilot, t),
       forecast: p.expected,
       lower: p.lower,
       upper: p.upper,

@@ -22,7 +22,7 @@ import type { Continuation } from "./gainCorrection.js";
 export interface WeightedFit {
   family: CurveFamily;
   weight: number;
-  parameters: readonly number[];
+  parameters: number[];
 }
 
 /**
@@ -42,7 +42,7 @@ export function expectedValue(
       sum +
       f.weight *
         drawnValue(
-          { family: f.family, parameters: [...f.parameters], shift: 0, extrapolation: 0, continuation },
+          { family: f.family, parameters: f.parameters, shift: 0, extrapolation: 0, continuation },
           trainingSize,
           largestMeasured,
         ),

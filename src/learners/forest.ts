@@ -29,6 +29,7 @@
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
+import { scratchDoubles, scratchIntegers } from "./scratch.js";
 import { checkSettingNames, wholeNumber } from "./settings.js";
 import { spreadOverClasses } from "./classProbabilities.js";
 import { summarizeClasses } from "./trainingChecks.js";
@@ -99,7 +100,10 @@ export class RandomForest implements Learner {
       standardize: false,
     });
     const p = preprocessor.outputColumns;
-    const x = preprocessor.transform(features, rows);
+    // The imputed rows and their ranked copy serve only while the trees grow: work arrays of this
+    // thread (scratch.ts), as large as the training rows, reused by the next fit instead of piling up
+    // as garbage that V8 collects late.
+    const x = preprocessor.transform(features, rows, scratchDoubles("forest.training", rows * p));
     const grower = new TreeGrower(rankFeatures(x, rows, p), rows, p, positions, present.length, this.options, random);
     const trees: Tree[] = [];
     for (let t = 0; t < this.options.trees; t++) trees.push(grower.grow());
@@ -147,8 +151,8 @@ export class FittedForest implements FittedModel {
    * @throws DataError when the features do not hold rows × columns values or a value is ±Infinity.
    */
   predictProbabilities(features: Float64Array, rows: number): Float64Array {
-    const x = this.preprocessor.transform(features, rows);
     const p = this.preprocessor.outputColumns;
+    const x = this.preprocessor.transform(features, rows, scratchDoubles("forest.predicted", rows * p));
     const classes = this.classes.length;
     const out = new Float64Array(rows * classes);
     for (const tree of this.trees) {
@@ -167,7 +171,10 @@ export class FittedForest implements FittedModel {
   }
 }
 
-/** The training features column by column, with each value's rank among its column's distinct values. */
+/**
+ * The training features column by column, with each value's rank among its column's distinct values.
+ * Its arrays are work arrays of this thread (scratch.ts): valid only while one fit grows its trees.
+ */
 interface RankedFeatures {
   /** Column-major `columns × rows` values. */
   values: Float64Array;
@@ -175,7 +182,7 @@ interface RankedFeatures {
   ranks: Int32Array;
   /** Number of distinct values of each column. */
   distinctCounts: Int32Array;
-  /** The distinct values of all columns, each column's ascending, concatenated. */
+  /** The distinct values of all columns, each column's ascending, concatenated (then unused room). */
   distinctValues: Float64Array;
   /** Where each column's distinct values start in `distinctValues`. */
   offsets: Int32Array;
@@ -187,15 +194,17 @@ interface RankedFeatures {
  * a counting sort on the ranks, in time linear in the rows; other nodes sort the values themselves.
  */
 function rankFeatures(x: Float64Array, rows: number, columns: number): RankedFeatures {
-  const values = new Float64Array(columns * rows);
-  const ranks = new Int32Array(columns * rows);
+  const values = scratchDoubles("forest.values", columns * rows);
+  const ranks = scratchIntegers("forest.ranks", columns * rows);
   const distinctCounts = new Int32Array(columns);
   const offsets = new Int32Array(columns);
-  const distinct: number[] = [];
-  const sorted = new Float64Array(rows);
-  const order = new Int32Array(rows);
+  // At most `rows` distinct values per column.
+  const distinctValues = scratchDoubles("forest.distinct", columns * rows);
+  const sorted = scratchDoubles("forest.sorted", rows);
+  const order = scratchIntegers("forest.order", rows);
+  let distinct = 0;
   for (let j = 0; j < columns; j++) {
-    offsets[j] = distinct.length;
+    offsets[j] = distinct;
     for (let i = 0; i < rows; i++) {
       const v = x[i * columns + j];
       values[j * rows + i] = v;
@@ -207,13 +216,13 @@ function rankFeatures(x: Float64Array, rows: number, columns: number): RankedFea
     for (let s = 0; s < rows; s++) {
       if (s === 0 || sorted[s] !== sorted[s - 1]) {
         rank++;
-        distinct.push(sorted[s]);
+        distinctValues[distinct++] = sorted[s];
       }
       ranks[j * rows + order[s]] = rank;
     }
     distinctCounts[j] = rank + 1;
   }
-  return { values, ranks, distinctCounts, distinctValues: Float64Array.from(distinct), offsets };
+  return { values, ranks, distinctCounts, distinctValues, offsets };
 }
 
 /** Grows trees on one training set; holds the work arrays they share. */

@@ -294,6 +294,8 @@ export const message = {
   nothingToPreprocess: () => `preprocessing: no training rows to fit the imputation and scaling on`,
   featureNotFinite: (role: string, row: number, column: number, value: number) =>
     `preprocessing: ${role} row ${row + 1}, feature column ${column + 1} is ${value}; only NaN may mark a missing value`,
+  missingInCompleteColumn: (role: string, row: number, column: number) =>
+    `preprocessing: ${role} row ${row + 1}, feature column ${column + 1} is missing, in a column said to have no missing value`,
   shapeNotWhole: (role: string, rows: number, columns: number) =>
     `preprocessing: ${role} shape ${rows} rows × ${columns} columns is not a pair of whole numbers`,
   featureCount: (stage: string, role: string, values: number, rows: number, columns: number) =>

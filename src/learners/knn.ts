@@ -69,7 +69,10 @@ export class KNearestNeighbors implements Learner {
   fit(training: TrainingSet, _random?: RandomStream): FittedKnn {
     summarizeClasses(name, training);
     const { features, rows, labels, classCount } = training;
-    const preprocessor = fitPreprocessor(features, rows, training.columns, { categories: training.categories });
+    const preprocessor = fitPreprocessor(features, rows, training.columns, {
+      categories: training.categories,
+      completeColumns: training.completeColumns,
+    });
     return new FittedKnn(
       classCount,
       preprocessor,

@@ -45,7 +45,10 @@ export class KNearestNeighborsRegression implements RegressionLearner {
   fit(training: RegressionTrainingSet, _random?: RandomStream): FittedKnnRegression {
     checkRegressionSet(name, training);
     const { features, rows, targets } = training;
-    const preprocessor = fitPreprocessor(features, rows, training.columns, { categories: training.categories });
+    const preprocessor = fitPreprocessor(features, rows, training.columns, {
+      categories: training.categories,
+      completeColumns: training.completeColumns,
+    });
     return new FittedKnnRegression(
       preprocessor,
       preprocessor.transform(features, rows),

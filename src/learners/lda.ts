@@ -89,7 +89,10 @@ export class LinearDiscriminant implements Learner {
   fit(training: TrainingSet, _random?: RandomStream): FittedLda {
     const { present, positions } = summarizeClasses(name, training);
     const { features, rows, classCount } = training;
-    const preprocessor = fitPreprocessor(features, rows, training.columns, { categories: training.categories });
+    const preprocessor = fitPreprocessor(features, rows, training.columns, {
+      categories: training.categories,
+      completeColumns: training.completeColumns,
+    });
     const p = preprocessor.outputColumns;
     const classes = present.length;
     if (classes === 1)

@@ -25,6 +25,12 @@ export interface TrainingSet {
    * the category's index, NaN when missing), or null for a numeric column. Absent: all numeric.
    */
   categories?: readonly (readonly string[] | null)[];
+  /**
+   * Per feature column, 1 when none of its values is missing in the data set the rows come from (the
+   * training rows and every row the model will predict), so that the preprocessing can skip what only
+   * imputes (`completeColumns` of preprocess.ts). Absent: any column may hold missing values.
+   */
+  completeColumns?: Uint8Array;
 }
 
 /** Training rows of a regression problem: like TrainingSet, with a numeric target per row. */
@@ -34,6 +40,8 @@ export interface RegressionTrainingSet {
   columns: number;
   targets: Float64Array;
   categories?: readonly (readonly string[] | null)[];
+  /** As {@link TrainingSet.completeColumns}. */
+  completeColumns?: Uint8Array;
 }
 
 export interface FittedRegressionModel {

@@ -145,7 +145,10 @@ export class LogisticRegression implements Learner {
         throw new DataError(message.labelOutOfRange("logistic", i + 1, label, classCount));
       counts[label]++;
     }
-    const preprocessor = fitPreprocessor(features, rows, columns, { categories: training.categories });
+    const preprocessor = fitPreprocessor(features, rows, columns, {
+      categories: training.categories,
+      completeColumns: training.completeColumns,
+    });
     const width = preprocessor.outputColumns;
     const present: number[] = [];
     for (let k = 0; k < classCount; k++) if (counts[k] > 0) present.push(k);

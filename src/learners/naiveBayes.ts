@@ -23,6 +23,7 @@ import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learn
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, nonNegative } from "./settings.js";
 import { softmaxRows, spreadOverClasses } from "./classProbabilities.js";
+import { scratchDoubles } from "./scratch.js";
 import { summarizeClasses } from "./trainingChecks.js";
 
 export interface NaiveBayesOptions {
@@ -74,21 +75,25 @@ export class GaussianNaiveBayes implements Learner {
   fit(training: TrainingSet, _random?: RandomStream): FittedNaiveBayes {
     const { present, positions } = summarizeClasses(name, training);
     const { features, rows, classCount } = training;
-    const preprocessor = fitPreprocessor(features, rows, training.columns, { categories: training.categories });
+    const preprocessor = fitPreprocessor(features, rows, training.columns, {
+      categories: training.categories,
+      completeColumns: training.completeColumns,
+    });
     const p = preprocessor.outputColumns;
     const classes = present.length;
-    const x = preprocessor.transform(features, rows);
+    // The standardized rows serve only this fit: a work array of this thread (scratch.ts).
+    const x = preprocessor.transform(features, rows, scratchDoubles("naiveBayes.training", rows * p));
 
     // ε from the largest variance over all rows (numpy's var: mean, then mean squared deviation).
+    // Summed row by row into one sum per column, each column's in the same order as a walk down it,
+    // which on wide rows would touch a new cache line at every value.
+    const columnMeans = scratchDoubles("naiveBayes.columnMeans", p).fill(0);
+    const columnSquares = scratchDoubles("naiveBayes.columnSquares", p).fill(0);
+    for (let i = 0; i < rows; i++) for (let j = 0; j < p; j++) columnMeans[j] += x[i * p + j];
+    for (let j = 0; j < p; j++) columnMeans[j] /= rows;
+    for (let i = 0; i < rows; i++) for (let j = 0; j < p; j++) columnSquares[j] += (x[i * p + j] - columnMeans[j]) ** 2;
     let largest = 0;
-    for (let j = 0; j < p; j++) {
-      let mean = 0;
-      for (let i = 0; i < rows; i++) mean += x[i * p + j];
-      mean /= rows;
-      let variance = 0;
-      for (let i = 0; i < rows; i++) variance += (x[i * p + j] - mean) ** 2;
-      largest = Math.max(largest, variance / rows);
-    }
+    for (let j = 0; j < p; j++) largest = Math.max(largest, columnSquares[j] / rows);
     const epsilon = this.options.varSmoothing * (largest > 0 ? largest : 1);
 
     const sizes = new Float64Array(classes);
@@ -143,8 +148,8 @@ export class FittedNaiveBayes implements FittedModel {
    * @throws DataError when the features do not hold rows × columns values or a value is ±Infinity.
    */
   jointLogLikelihoods(features: Float64Array, rows: number): Float64Array {
-    const x = this.preprocessor.transform(features, rows);
     const p = this.preprocessor.outputColumns;
+    const x = this.preprocessor.transform(features, rows, scratchDoubles("naiveBayes.predicted", rows * p));
     const classes = this.classes.length;
     const { means, variances, constants } = this;
     const out = new Float64Array(rows * classes);

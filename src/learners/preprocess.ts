@@ -33,6 +33,13 @@ export interface PreprocessOptions {
   categories?: readonly (readonly string[] | null)[];
   /** Whether to center and scale the numeric columns. @default true */
   standardize?: boolean;
+  /**
+   * Per input column, 1 when no value of it is missing in any row the fitted step will see, training or
+   * predicted (`completeColumns` of a training set, learner.ts): its median, which would never be used, is not
+   * computed, and its imputed value is NaN. `transform` rejects a missing value in such a column.
+   * @default every column may hold missing values
+   */
+  completeColumns?: Uint8Array;
 }
 
 /** A fitted encoding, imputation and standardization step. */
@@ -45,7 +52,7 @@ export interface Preprocessor {
   readonly encoder: CategoryEncoder | null;
   /**
    * Value put in place of NaN, per output column (median of the non-missing training values, or 0;
-   * 0 for an indicator column, which is never missing).
+   * 0 for an indicator column, which is never missing; NaN for a column fitted as complete).
    */
   readonly imputedValues: Float64Array;
   /** Mean of each output column over the imputed training rows (0 for indicators and without standardizing). */
@@ -61,6 +68,12 @@ export interface Preprocessor {
    *   text column holds something other than a category index.
    */
   transform(features: Float64Array, rows: number, out?: Float64Array): Float64Array;
+  /**
+   * Whether `transform` would give these rows' values back unchanged (no text column, no
+   * standardization, no missing value), so that a caller may read them as they are. The rows must
+   * be finite or NaN, as training rows that passed the fit are.
+   */
+  passesThrough(features: Float64Array): boolean;
 }
 
 /**
@@ -91,24 +104,48 @@ export function fitPreprocessor(
   const imputedValues = new Float64Array(width);
   const means = new Float64Array(width);
   const scales = new Float64Array(width).fill(1);
+  const complete = options.completeColumns;
+  const numeric = (j: number) => !(encoder && encoder.indicatedCategories[j] >= 0);
+  const isComplete = (j: number) => complete !== undefined && complete[encoder ? encoder.sourceColumns[j] : j] === 1;
+  // Without standardizing, a complete column only needs its values checked, which one pass over the
+  // rows as they lie does without a column-major copy (as large as the training rows).
+  let columnWork = standardize;
+  for (let j = 0; j < width && !columnWork; j++) columnWork = numeric(j) && !isComplete(j);
+  if (!columnWork && allFinite(values)) {
+    for (let j = 0; j < width; j++) if (numeric(j)) imputedValues[j] = NaN;
+    return new FittedPreprocessor(columns, width, encoder, imputedValues, means, scales);
+  }
   const present = scratchDoubles("preprocess.present", rows);
   // On wide rows a walk down one column touches a new cache line at every value; a column-major copy
   // (one pass) makes each column's passes contiguous. Same values, same order of sums.
-  const byColumn = width > transposeWidth && rows > 1;
+  const byColumn = columnWork && width > transposeWidth && rows > 1;
   const source = byColumn ? transpose(values, rows, width, scratchDoubles("preprocess.columns", rows * width)) : values;
   const stride = byColumn ? 1 : width;
   for (let j = 0; j < width; j++) {
-    if (encoder && encoder.indicatedCategories[j] >= 0) continue; // an indicator: kept as 0/1
+    if (!numeric(j)) continue; // an indicator: kept as 0/1
     const start = byColumn ? j * rows : j;
-    // Median of the non-missing values.
-    const count = presentValues(source, rows, start, stride, present);
-    if (count < 0) {
-      const row = -1 - count;
-      throw new DataError(
-        message.featureNotFinite("training", row, encoder ? encoder.sourceColumns[j] : j, values[row * width + j]),
-      );
+    const column = encoder ? encoder.sourceColumns[j] : j;
+    if (isComplete(j)) {
+      // No value missing here or in any row to come: the median would never be used.
+      const row = firstNotFinite(source, rows, start, stride);
+      if (row >= 0) {
+        const value = values[row * width + j];
+        throw new DataError(
+          Number.isNaN(value)
+            ? message.missingInCompleteColumn("training", row, column)
+            : message.featureNotFinite("training", row, column, value),
+        );
+      }
+      imputedValues[j] = NaN;
+    } else {
+      // Median of the non-missing values.
+      const count = presentValues(source, rows, start, stride, present);
+      if (count < 0) {
+        const row = -1 - count;
+        throw new DataError(message.featureNotFinite("training", row, column, values[row * width + j]));
+      }
+      imputedValues[j] = count > 0 ? medianInPlace(present, count) : 0;
     }
-    imputedValues[j] = count > 0 ? medianInPlace(present, count) : 0;
     if (standardize) fitScale(source, rows, start, stride, j, imputedValues, means, scales);
   }
   return new FittedPreprocessor(columns, width, encoder, imputedValues, means, scales);
@@ -153,6 +190,18 @@ function presentValues(
     present[count++] = v;
   }
   return count;
+}
+
+/** Whether no value is NaN or ±Infinity. */
+function allFinite(values: Float64Array): boolean {
+  for (let at = 0; at < values.length; at++) if (!Number.isFinite(values[at])) return false;
+  return true;
+}
+
+/** The first of the column's rows (as in {@link presentValues}) whose value is NaN or ±Infinity, else −1. */
+function firstNotFinite(values: Float64Array, rows: number, start: number, stride: number): number {
+  for (let i = 0; i < rows; i++) if (!Number.isFinite(values[start + i * stride])) return i;
+  return -1;
 }
 
 /**
@@ -203,6 +252,12 @@ class FittedPreprocessor implements Preprocessor {
     readonly scales: Float64Array,
   ) {}
 
+  passesThrough(features: Float64Array): boolean {
+    if (this.encoder) return false;
+    for (let j = 0; j < this.outputColumns; j++) if (this.means[j] !== 0 || this.scales[j] !== 1) return false;
+    return allFinite(features);
+  }
+
   transform(features: Float64Array, rows: number, target?: Float64Array): Float64Array {
     const { columns, outputColumns, encoder } = this;
     checkShape(features, rows, columns, "prediction");
@@ -220,15 +275,15 @@ class FittedPreprocessor implements Preprocessor {
     const { imputedValues, means, scales } = this;
     for (let i = 0; i < rows; i++) {
       const j = standardizeRow(input, out, i * outputColumns, imputedValues, means, scales);
-      if (j >= 0)
+      if (j >= 0) {
+        const column = encoder ? encoder.sourceColumns[j] : j;
+        const value = input[i * outputColumns + j];
         throw new DataError(
-          message.featureNotFinite(
-            "prediction",
-            i,
-            encoder ? encoder.sourceColumns[j] : j,
-            input[i * outputColumns + j],
-          ),
+          Number.isNaN(value)
+            ? message.missingInCompleteColumn("prediction", i, column)
+            : message.featureNotFinite("prediction", i, column, value),
         );
+      }
     }
     return out;
   }
@@ -236,8 +291,9 @@ class FittedPreprocessor implements Preprocessor {
 
 /**
  * Writes `(x − mean) / scale` of the row at `offset` of `input` into `out`, NaN read as the imputed
- * value; returns the first column holding ±Infinity (the row is then left unfinished), else −1. A
- * function of its own, called once per row, for the reason given above presentValues.
+ * value; returns the first column holding ±Infinity, or NaN where there is no imputed value (a
+ * column fitted as complete), the row then left unfinished; else −1. A function of its own, called
+ * once per row, for the reason given above presentValues.
  */
 function standardizeRow(
   input: Float64Array,
@@ -249,8 +305,10 @@ function standardizeRow(
 ): number {
   for (let j = 0; j < means.length; j++) {
     let v = input[offset + j];
-    if (Number.isNaN(v)) v = imputedValues[j];
-    else if (!Number.isFinite(v)) return j;
+    if (Number.isNaN(v)) {
+      v = imputedValues[j];
+      if (Number.isNaN(v)) return j;
+    } else if (!Number.isFinite(v)) return j;
     out[offset + j] = (v - means[j]) / scales[j];
   }
   return -1;

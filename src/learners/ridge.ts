@@ -72,7 +72,10 @@ export class RidgeRegression implements RegressionLearner {
   fit(training: RegressionTrainingSet, _random?: RandomStream): FittedRidge {
     checkRegressionSet(name, training);
     const { features, rows, targets } = training;
-    const preprocessor = fitPreprocessor(features, rows, training.columns, { categories: training.categories });
+    const preprocessor = fitPreprocessor(features, rows, training.columns, {
+      categories: training.categories,
+      completeColumns: training.completeColumns,
+    });
     const p = preprocessor.outputColumns;
     const x = preprocessor.transform(features, rows);
 

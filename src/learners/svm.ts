@@ -93,7 +93,10 @@ export class LinearSvm implements Learner {
   fit(training: TrainingSet, random: RandomStream): FittedSvm {
     const { present, positions } = summarizeClasses(name, training);
     const { features, rows, classCount } = training;
-    const preprocessor = fitPreprocessor(features, rows, training.columns, { categories: training.categories });
+    const preprocessor = fitPreprocessor(features, rows, training.columns, {
+      categories: training.categories,
+      completeColumns: training.completeColumns,
+    });
     const p = preprocessor.outputColumns;
     const classes = present.length;
     if (classes === 1)

@@ -150,6 +150,62 @@ describe("fitPreprocessor", () => {
   });
 });
 
+describe("fitPreprocessor with complete columns", () => {
+  /** Seeded values with no missing one: `rows × columns`, some columns with repeated values. */
+  function values(rows: number, columns: number): Float64Array {
+    return Float64Array.from({ length: rows * columns }, (_, at) => ((at * 7919) % 101) / 7 - (at % columns) * 0.5);
+  }
+
+  it("gives the same means, scales and rows as without, narrow and wide (column-major path)", () => {
+    for (const [rows, columns] of [
+      [9, 3],
+      [7, 130],
+    ]) {
+      const x = values(rows, columns);
+      const complete = new Uint8Array(columns).fill(1);
+      complete[1] = 0; // a column that may hold missing values elsewhere keeps its median
+      const plain = fitPreprocessor(x, rows, columns);
+      const hinted = fitPreprocessor(x, rows, columns, { completeColumns: complete });
+      expect(Array.from(hinted.means)).toEqual(Array.from(plain.means));
+      expect(Array.from(hinted.scales)).toEqual(Array.from(plain.scales));
+      expect(Array.from(hinted.transform(x, rows))).toEqual(Array.from(plain.transform(x, rows)));
+      // Only the column that may hold missing values has an imputed value.
+      expect(hinted.imputedValues[1]).toBe(plain.imputedValues[1]);
+      expect(Number.isNaN(hinted.imputedValues[0])).toBe(true);
+      // Without standardizing (trees), the values come through unchanged.
+      const trees = fitPreprocessor(x, rows, columns, { completeColumns: complete, standardize: false });
+      expect(Array.from(trees.transform(x, rows))).toEqual(Array.from(x));
+    }
+  });
+
+  it("rejects a missing value in a column said to be complete, naming row and column, and still reports ±Infinity", () => {
+    const complete = Uint8Array.of(1, 1);
+    const training = matrix([
+      [1, 2],
+      [3, NaN],
+    ]);
+    expect(() => fitPreprocessor(training, 2, 2, { completeColumns: complete })).toThrow(
+      new DataError(
+        "preprocessing: training row 2, feature column 2 is missing, in a column said to have no missing value",
+      ),
+    );
+    expect(() => fitPreprocessor(matrix([[1], [-Infinity]]), 2, 1, { completeColumns: Uint8Array.of(1) })).toThrow(
+      /training row 2, feature column 1 is -Infinity/,
+    );
+    const pre = fitPreprocessor(
+      matrix([
+        [1, 2],
+        [3, 4],
+      ]),
+      2,
+      2,
+      { completeColumns: complete },
+    );
+    expect(() => pre.transform(matrix([[NaN, 1]]), 1)).toThrow(/prediction row 1, feature column 1 is missing/);
+    expect(() => pre.transform(matrix([[1, Infinity]]), 1)).toThrow(/prediction row 1, feature column 2 is Infinity/);
+  });
+});
+
 describe("medianInPlace", () => {
   // numpy.median (from memory): [3, 1, 2] → 2.0; [4, 1, 3, 2] → 2.5; [5, 5, 1, 5] → 5.0.
   it.each([

@@ -97,13 +97,17 @@ export class RandomForest implements Learner {
     const { features, rows, classCount } = training;
     const preprocessor = fitPreprocessor(features, rows, training.columns, {
       categories: training.categories,
+      completeColumns: training.completeColumns,
       standardize: false,
     });
     const p = preprocessor.outputColumns;
     // The imputed rows and their ranked copy serve only while the trees grow: work arrays of this
     // thread (scratch.ts), as large as the training rows, reused by the next fit instead of piling up
     // as garbage that V8 collects late.
-    const x = preprocessor.transform(features, rows, scratchDoubles("forest.training", rows * p));
+    // Complete numeric columns (the usual case) come through the unstandardized step unchanged.
+    const x = preprocessor.passesThrough(features)
+      ? features
+      : preprocessor.transform(features, rows, scratchDoubles("forest.training", rows * p));
     const grower = new TreeGrower(rankFeatures(x, rows, p), rows, p, positions, present.length, this.options, random);
     const trees: Tree[] = [];
     for (let t = 0; t < this.options.trees; t++) trees.push(grower.grow());

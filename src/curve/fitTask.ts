@@ -15,7 +15,7 @@
 import { selectLabels, selectRows, type Dataset } from "../data/dataset.js";
 import type { FittedModel, Learner, LearnerSettings, RegressionLearner } from "../learners/learner.js";
 import { createLearner, createRegressionLearner } from "../learners/registry.js";
-import { scratchDoubles } from "../learners/scratch.js";
+import { expectTrainingRows, scratchDoubles } from "../learners/scratch.js";
 import { StreamPurpose, streamFor, type RandomStream } from "../random.js";
 import { groupKFold } from "../splitters/groupKFold.js";
 import { kFold } from "../splitters/kFold.js";
@@ -105,6 +105,7 @@ export function runFitTask(data: Dataset, plan: FitPlan, task: FitTask): number[
   // and reads its features as a prefix of the longest training set's, selected once.
   const warm: WarmStart = {};
   const longest = Math.max(0, ...plan.trainingSizes.map((size, s) => task.prefixLengths?.[s] ?? size));
+  expectTrainingRows(longest);
   const nestedFeatures = selectRows(
     data,
     task.orderedTrain.subarray(0, longest),

@@ -58,7 +58,7 @@ import {
   type Objective,
 } from "../numerics/lbfgs.js";
 import { rowSpace, wideEnough } from "./rowSpace.js";
-import { scratchDoubles, scratchIntegers } from "./scratch.js";
+import { scratchDoubles, scratchRowDoubles, scratchRowIntegers } from "./scratch.js";
 import { choleskyInPlace, choleskySolveInPlace } from "../numerics/linearAlgebra.js";
 import { checkSettingNames } from "./settings.js";
 import { SoftmaxLoss } from "./softmaxKernel.js";
@@ -168,11 +168,11 @@ export class LogisticRegression implements Learner {
     }
     // The standardized rows and the labels are work arrays of this thread (scratch.ts): the fitters
     // read them only while they run.
-    const x = preprocessor.transform(features, rows, scratchDoubles("logistic.training", rows * width));
+    const x = preprocessor.transform(features, rows, scratchRowDoubles("logistic.training", rows, width));
     // Labels renumbered over the classes present: 0 .. present.length − 1.
     const position = new Int32Array(classCount).fill(-1);
     present.forEach((k, index) => (position[k] = index));
-    const y = scratchIntegers("logistic.labels", rows);
+    const y = scratchRowIntegers("logistic.labels", rows);
     for (let i = 0; i < rows; i++) y[i] = position[labels[i]];
 
     let fitted: LinearFit;

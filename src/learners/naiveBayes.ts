@@ -23,7 +23,7 @@ import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learn
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
 import { checkSettingNames, nonNegative } from "./settings.js";
 import { softmaxRows, spreadOverClasses } from "./classProbabilities.js";
-import { scratchDoubles } from "./scratch.js";
+import { scratchDoubles, scratchRowDoubles } from "./scratch.js";
 import { summarizeClasses } from "./trainingChecks.js";
 
 export interface NaiveBayesOptions {
@@ -82,7 +82,7 @@ export class GaussianNaiveBayes implements Learner {
     const p = preprocessor.outputColumns;
     const classes = present.length;
     // The standardized rows serve only this fit: a work array of this thread (scratch.ts).
-    const x = preprocessor.transform(features, rows, scratchDoubles("naiveBayes.training", rows * p));
+    const x = preprocessor.transform(features, rows, scratchRowDoubles("naiveBayes.training", rows, p));
 
     // ε from the largest variance over all rows (numpy's var: mean, then mean squared deviation).
     // Summed row by row into one sum per column, each column's in the same order as a walk down it,

@@ -25,7 +25,7 @@
 import { DataError } from "../errors.js";
 import { message } from "../messages.js";
 import { fitCategoryEncoder, hasCategories, type CategoryEncoder } from "./encode.js";
-import { scratchDoubles } from "./scratch.js";
+import { scratchRowDoubles } from "./scratch.js";
 
 /** What {@link fitPreprocessor} does besides imputing. */
 export interface PreprocessOptions {
@@ -115,11 +115,13 @@ export function fitPreprocessor(
     for (let j = 0; j < width; j++) if (numeric(j)) imputedValues[j] = NaN;
     return new FittedPreprocessor(columns, width, encoder, imputedValues, means, scales);
   }
-  const present = scratchDoubles("preprocess.present", rows);
+  const present = scratchRowDoubles("preprocess.present", rows);
   // On wide rows a walk down one column touches a new cache line at every value; a column-major copy
   // (one pass) makes each column's passes contiguous. Same values, same order of sums.
   const byColumn = columnWork && width > transposeWidth && rows > 1;
-  const source = byColumn ? transpose(values, rows, width, scratchDoubles("preprocess.columns", rows * width)) : values;
+  const source = byColumn
+    ? transpose(values, rows, width, scratchRowDoubles("preprocess.columns", rows, width))
+    : values;
   const stride = byColumn ? 1 : width;
   for (let j = 0; j < width; j++) {
     if (!numeric(j)) continue; // an indicator: kept as 0/1

@@ -29,7 +29,7 @@
 import type { RandomStream } from "../random.js";
 import type { FittedModel, Learner, LearnerSettings, TrainingSet } from "./learner.js";
 import { fitPreprocessor, type Preprocessor } from "./preprocess.js";
-import { scratchDoubles, scratchIntegers } from "./scratch.js";
+import { scratchDoubles, scratchRowDoubles, scratchRowIntegers } from "./scratch.js";
 import { checkSettingNames, wholeNumber } from "./settings.js";
 import { spreadOverClasses } from "./classProbabilities.js";
 import { summarizeClasses } from "./trainingChecks.js";
@@ -107,20 +107,24 @@ export class RandomForest implements Learner {
     // Complete numeric columns (the usual case) come through the unstandardized step unchanged.
     const x = preprocessor.passesThrough(features)
       ? features
-      : preprocessor.transform(features, rows, scratchDoubles("forest.training", rows * p));
+      : preprocessor.transform(features, rows, scratchRowDoubles("forest.training", rows, p));
     const grower = new TreeGrower(rankFeatures(x, rows, p), rows, p, positions, present.length, this.options, random);
-    const trees: Tree[] = [];
-    for (let t = 0; t < this.options.trees; t++) trees.push(grower.grow());
-    return new FittedForest(classCount, preprocessor, present, trees);
+    for (let t = 0; t < this.options.trees; t++) grower.grow();
+    return new FittedForest(classCount, preprocessor, present, grower.finish());
   }
 }
 
-/** One tree in flat arrays; node 0 is the root. */
-interface Tree {
+/**
+ * The trees in flat arrays, one after another: a handful of arrays per forest rather than a handful
+ * per tree (thousands of small allocations per fit, which fragment the process's memory).
+ */
+interface Trees {
+  /** Where each tree's nodes start, then the total: tree t's root is node `roots[t]`. */
+  roots: Int32Array;
   /** Split feature of each node, −1 for a leaf. */
   feature: Int32Array;
   threshold: Float64Array;
-  /** Child indices of each inner node; for a leaf, `left` is the leaf's row in `values`. */
+  /** Child nodes of each inner node; for a leaf, `left` is the leaf's row in `values`. */
   left: Int32Array;
   right: Int32Array;
   /** Row-major `leaves × classes`: the leaves' class fractions over the present classes. */
@@ -136,17 +140,18 @@ export class FittedForest implements FittedModel {
     readonly preprocessor: Preprocessor,
     /** The classes present in training, ascending; the others get probability 0. */
     readonly classes: Int32Array,
-    private readonly trees: readonly Tree[],
+    private readonly trees: Trees,
   ) {}
 
   /** Number of trees. */
   get treeCount(): number {
-    return this.trees.length;
+    return this.trees.roots.length - 1;
   }
 
   /** Number of nodes of each tree. */
   nodeCounts(): number[] {
-    return this.trees.map((tree) => tree.feature.length);
+    const { roots } = this.trees;
+    return Array.from({ length: roots.length - 1 }, (_, t) => roots[t + 1] - roots[t]);
   }
 
   /**
@@ -159,17 +164,17 @@ export class FittedForest implements FittedModel {
     const x = this.preprocessor.transform(features, rows, scratchDoubles("forest.predicted", rows * p));
     const classes = this.classes.length;
     const out = new Float64Array(rows * classes);
-    for (const tree of this.trees) {
-      const { feature, threshold, left, right, values } = tree;
+    const { roots, feature, threshold, left, right, values } = this.trees;
+    const count = roots.length - 1;
+    for (let t = 0; t < count; t++) {
       for (let i = 0; i < rows; i++) {
         const offset = i * p;
-        let node = 0;
+        let node = roots[t];
         while (feature[node] >= 0) node = x[offset + feature[node]] <= threshold[node] ? left[node] : right[node];
         const leaf = left[node] * classes;
         for (let k = 0; k < classes; k++) out[i * classes + k] += values[leaf + k];
       }
     }
-    const count = this.trees.length;
     for (let i = 0; i < out.length; i++) out[i] /= count;
     return spreadOverClasses(out, rows, this.classes, this.classCount);
   }
@@ -198,14 +203,14 @@ interface RankedFeatures {
  * a counting sort on the ranks, in time linear in the rows; other nodes sort the values themselves.
  */
 function rankFeatures(x: Float64Array, rows: number, columns: number): RankedFeatures {
-  const values = scratchDoubles("forest.values", columns * rows);
-  const ranks = scratchIntegers("forest.ranks", columns * rows);
+  const values = scratchRowDoubles("forest.values", rows, columns);
+  const ranks = scratchRowIntegers("forest.ranks", rows, columns);
   const distinctCounts = new Int32Array(columns);
   const offsets = new Int32Array(columns);
   // At most `rows` distinct values per column.
-  const distinctValues = scratchDoubles("forest.distinct", columns * rows);
-  const sorted = scratchDoubles("forest.sorted", rows);
-  const order = scratchIntegers("forest.order", rows);
+  const distinctValues = scratchRowDoubles("forest.distinct", rows, columns);
+  const sorted = scratchRowDoubles("forest.sorted", rows);
+  const order = scratchRowIntegers("forest.order", rows);
   let distinct = 0;
   for (let j = 0; j < columns; j++) {
     offsets[j] = distinct;
@@ -241,6 +246,11 @@ class TreeGrower {
   private readonly nodeCounts: Float64Array;
   private readonly leftCounts: Float64Array;
   private readonly rightCounts: Float64Array;
+  /** The trees grown so far, one after another, in arrays with room for `trees` trees of the most nodes. */
+  private readonly grown: Trees;
+  private treeCount = 0;
+  private nodeCount = 0;
+  private leafCount = 0;
 
   constructor(
     private readonly features: RankedFeatures,
@@ -264,24 +274,44 @@ class TreeGrower {
     this.nodeCounts = new Float64Array(classes);
     this.leftCounts = new Float64Array(classes);
     this.rightCounts = new Float64Array(classes);
+    // A tree on at most `rows` distinct rows has fewer than 2 · rows nodes, at most `rows` of them leaves.
+    const nodesPerRow = 2 * options.trees;
+    this.grown = {
+      roots: new Int32Array(options.trees + 1),
+      feature: scratchRowIntegers("forest.feature", rows, nodesPerRow),
+      threshold: scratchRowDoubles("forest.threshold", rows, nodesPerRow),
+      left: scratchRowIntegers("forest.left", rows, nodesPerRow),
+      right: scratchRowIntegers("forest.right", rows, nodesPerRow),
+      values: scratchRowDoubles("forest.leafValues", rows, options.trees * classes),
+    };
   }
 
-  /** Draws a bootstrap sample and grows one tree on it, depth first. */
-  grow(): Tree {
+  /** The trees grown, in arrays of their own (the work arrays go back to the thread). */
+  finish(): Trees {
+    const { grown, treeCount, nodeCount } = this;
+    return {
+      roots: grown.roots.slice(0, treeCount + 1),
+      feature: grown.feature.slice(0, nodeCount),
+      threshold: grown.threshold.slice(0, nodeCount),
+      left: grown.left.slice(0, nodeCount),
+      right: grown.right.slice(0, nodeCount),
+      values: grown.values.slice(0, this.leafCount * this.classes),
+    };
+  }
+
+  /** Draws a bootstrap sample and grows one tree on it, depth first, after the trees grown before. */
+  grow(): void {
     const { rows, classes, weights, samples, random } = this;
     weights.fill(0);
     for (let draw = 0; draw < rows; draw++) weights[random.integer(rows)]++;
     let distinct = 0;
     for (let i = 0; i < rows; i++) if (weights[i] > 0) samples[distinct++] = i;
 
-    const capacity = 2 * distinct - 1;
-    const feature = new Int32Array(capacity);
-    const threshold = new Float64Array(capacity);
-    const left = new Int32Array(capacity);
-    const right = new Int32Array(capacity);
-    const leafValues = new Float64Array(distinct * classes);
-    let nodes = 0;
-    let leaves = 0;
+    const { feature, threshold, left, right, values: leafValues, roots } = this.grown;
+    // Nodes and leaves are numbered after the trees grown before.
+    let nodes = this.nodeCount;
+    let leaves = this.leafCount;
+    roots[this.treeCount] = nodes;
     // Stack of nodes to grow: start, end, depth, node index.
     const stack: number[] = [0, distinct, 0, nodes++];
     while (stack.length > 0) {
@@ -292,7 +322,9 @@ class TreeGrower {
       const split = this.bestSplit(start, end, depth);
       if (split === null) {
         feature[node] = -1;
+        threshold[node] = 0;
         left[node] = leaves;
+        right[node] = 0;
         const total = this.totalWeight;
         for (let k = 0; k < classes; k++) leafValues[leaves * classes + k] = this.nodeCounts[k] / total;
         leaves++;
@@ -306,13 +338,10 @@ class TreeGrower {
       stack.push(middle, end, depth + 1, right[node]);
       stack.push(start, middle, depth + 1, left[node]);
     }
-    return {
-      feature: feature.slice(0, nodes),
-      threshold: threshold.slice(0, nodes),
-      left: left.slice(0, nodes),
-      right: right.slice(0, nodes),
-      values: leafValues.slice(0, leaves * classes),
-    };
+    this.treeCount++;
+    this.nodeCount = nodes;
+    this.leafCount = leaves;
+    roots[this.treeCount] = nodes;
   }
 
   /** Weighted row count of the node last examined by bestSplit. */

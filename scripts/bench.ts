@@ -11,7 +11,8 @@
  * headroom is given the training sizes scikit-learn reports, so both fit the same sizes.
  *
  * Each side runs as a whole process (start-up included), `BENCH_RUNS` times (default 2), alternating;
- * the faster run counts. Peak memory is each process's maximum resident set size; processor time
+ * the faster run counts, and the spread column gives the lowest and highest ratio of the runs paired
+ * in order (run i of each side), as the load on the machine moves between runs. Peak memory is each process's maximum resident set size; processor time
  * (user + system, all threads) is printed too, as it suffers less from other load on the machine than
  * wall time does. The last column says whether the curve files written with one and two workers are
  * byte-identical, as they must be. `BENCH_ONLY=digits,breast` runs only the data sets whose names
@@ -175,6 +176,12 @@ function load(): string {
     .join(" ");
 }
 
+/** Lowest and highest ratio headroom / scikit-learn of `measure` over the runs paired in order. */
+function spread(reference: Side[], headroom: Side[], measure: (side: Side) => number): string {
+  const ratios = headroom.map((side, run) => measure(side) / measure(reference[Math.min(run, reference.length - 1)]));
+  return `${Math.min(...ratios).toFixed(2)}–${Math.max(...ratios).toFixed(2)}`;
+}
+
 function fastest<T extends Side>(sides: T[]): T {
   return sides.reduce((a, b) => (b.seconds < a.seconds ? b : a));
 }
@@ -208,7 +215,7 @@ if (check.status !== 0) {
   process.stdout.write(
     "data set | sklearn s | headroom 1w s | ratio 1w | headroom 2w s | ratio 2w | sklearn CPU s | " +
       "headroom 1w CPU s | CPU ratio 1w | sklearn MiB | headroom MiB | memory ratio | max |Δ mean score| | " +
-      "1w = 2w curve | load after\n",
+      "1w = 2w curve | ratio 1w spread | memory ratio spread | load after\n",
   );
   for (const [name, make] of sets) {
     if (only && !only.some((word) => name.toLowerCase().includes(word))) continue;
@@ -219,7 +226,7 @@ if (check.status !== 0) {
     process.stdout.write(
       "\nWide data, one worker, each learner with scikit-learn's counterpart (--tune: GridSearchCV inside learning_curve)\n" +
         "data set | learner | sklearn s | headroom 1w s | ratio 1w | sklearn CPU s | headroom CPU s | CPU ratio | " +
-        "sklearn MiB | headroom MiB | memory ratio | max |Δ mean score| | load after\n",
+        "sklearn MiB | headroom MiB | memory ratio | max |Δ mean score| | ratio spread | memory ratio spread | load after\n",
     );
   }
   for (const [name, make] of wideWanted) {
@@ -263,6 +270,8 @@ function runSet(name: string, make: () => string): void {
       (peakHeadroom / s.peakMemoryKiB).toFixed(2),
       delta.toFixed(3),
       identical ? "yes" : "NO",
+      spread(sk, one, (side) => side.seconds),
+      spread(sk, one, (side) => side.peakMemoryKiB),
       load(),
     ].join(" | ") + "\n",
   );
@@ -296,6 +305,8 @@ function runWide(name: string, file: string, learner: string, tune: boolean): vo
       (h.peakMemoryKiB / 1024).toFixed(0),
       (h.peakMemoryKiB / s.peakMemoryKiB).toFixed(2),
       delta.toFixed(3),
+      s.capped ? "-" : spread(sk, one, (side) => side.seconds),
+      s.capped ? "-" : spread(sk, one, (side) => side.peakMemoryKiB),
       load(),
     ].join(" | ") + "\n",
   );

@@ -30,23 +30,13 @@ export function nearestNeighbors(
   const out = new Int32Array(queryRows * k);
   const distances = new Float64Array(k);
   const indices = new Int32Array(k);
+  const blocks = columns - (columns % 8);
   for (let q = 0; q < queryRows; q++) {
     const query = q * columns;
     let held = 0;
     let worst = Infinity; // the k-th smallest distance so far (Infinity until k are held)
     for (let t = 0; t < trainingRows; t++) {
-      const row = t * columns;
-      let d = 0;
-      let j = 0;
-      // Partial sums in blocks of 8 columns, abandoning the row once it cannot enter.
-      while (j < columns) {
-        const end = Math.min(columns, j + 8);
-        for (; j < end; j++) {
-          const diff = queries[query + j] - training[row + j];
-          d += diff * diff;
-        }
-        if (d >= worst) break;
-      }
+      const d = squaredDistanceUpTo(queries, query, training, t * columns, columns, blocks, worst);
       if (d >= worst) continue;
       // Insert after every held distance ≤ d, so equal distances keep training order.
       let position = held < k ? held : k - 1;
@@ -63,4 +53,49 @@ export function nearestNeighbors(
     out.set(indices.subarray(0, k), q * k);
   }
   return out;
+}
+
+/**
+ * The squared distance between the rows at `a[aStart]` and `b[bStart]`, summed column by column in
+ * order; once a block of 8 columns leaves the sum at or above `worst`, that partial sum (the row
+ * cannot enter). The blocks are written out, 8 columns a step, which V8 runs markedly faster than a
+ * loop per column; the sum is the same, term by term and in the same order.
+ */
+function squaredDistanceUpTo(
+  a: Float64Array,
+  aStart: number,
+  b: Float64Array,
+  bStart: number,
+  columns: number,
+  blocks: number,
+  worst: number,
+): number {
+  let d = 0;
+  let j = 0;
+  for (; j < blocks; j += 8) {
+    const x = aStart + j;
+    const y = bStart + j;
+    const e0 = a[x] - b[y];
+    const e1 = a[x + 1] - b[y + 1];
+    const e2 = a[x + 2] - b[y + 2];
+    const e3 = a[x + 3] - b[y + 3];
+    const e4 = a[x + 4] - b[y + 4];
+    const e5 = a[x + 5] - b[y + 5];
+    const e6 = a[x + 6] - b[y + 6];
+    const e7 = a[x + 7] - b[y + 7];
+    d += e0 * e0;
+    d += e1 * e1;
+    d += e2 * e2;
+    d += e3 * e3;
+    d += e4 * e4;
+    d += e5 * e5;
+    d += e6 * e6;
+    d += e7 * e7;
+    if (d >= worst) return d;
+  }
+  for (; j < columns; j++) {
+    const e = a[aStart + j] - b[bStart + j];
+    d += e * e;
+  }
+  return d;
 }

@@ -22,8 +22,9 @@
  *
  * Written by hand because the npm package ml-random-forest's `predictProbability` drops one tree's
  * vote and crashes on few trees without `noOOB`, and ml-cart takes seconds on 2000 × 60 rows × columns (found
- * when tried). Here each node sorts its rows' values per visited feature
- * (quicksort with three-way partitioning on parallel Float64Array/Int32Array), and class weights are
+ * when tried). Here each node sorts its rows' values per visited feature (a counting sort on ranks
+ * found once per fit, or in small nodes quicksort with three-way partitioning on parallel
+ * Float64Array/Int32Array), and class weights are
  * whole numbers, so the Gini comparisons are exact.
  */
 import type { RandomStream } from "../random.js";
@@ -49,6 +50,16 @@ const name = "forest";
 
 /** Two values closer than this count as equal when placing thresholds (scikit-learn's FEATURE_THRESHOLD). */
 const featureThreshold = 1e-7;
+
+/**
+ * A node orders its rows by a feature with a counting sort on the ranks once it holds at least this
+ * fraction of the feature's distinct values: the counting sort takes time in rows + distinct values,
+ * the comparison sort in rows · log rows with unpredictable branches, and they cross near an eighth
+ * on the hundred or two rows of a learning curve's fits. Either gives the same tree: rows with equal
+ * values may come in another order, but a split, its threshold and a leaf's class weights depend only
+ * on which rows fall on each side (the weights are whole numbers, summed exactly).
+ */
+const countingSortShare = 1 / 8;
 
 /** Depth limits the tuning step tries; 0 grows the trees fully. */
 export const forestTuningGrid: readonly LearnerSettings[] = [
@@ -198,9 +209,10 @@ interface RankedFeatures {
 }
 
 /**
- * Sorts every column once per fit. A node whose rows outnumber a feature's distinct values (indicator
- * and small-integer features, and most nodes near the root) then orders its rows by that feature with
- * a counting sort on the ranks, in time linear in the rows; other nodes sort the values themselves.
+ * Sorts every column once per fit. A node holding enough rows for a feature's distinct values (see
+ * {@link countingSortShare}: indicator and small-integer features, and the nodes near the root) then
+ * orders its rows by that feature with a counting sort on the ranks; other nodes sort the values
+ * themselves.
  */
 function rankFeatures(x: Float64Array, rows: number, columns: number): RankedFeatures {
   const values = scratchRowDoubles("forest.values", rows, columns);
@@ -424,8 +436,9 @@ class TreeGrower {
     const { samples, values, rows } = this;
     const column = feature * rows;
     const distinctCount = this.features.distinctCounts[feature];
-    if (distinctCount >= end - start) {
-      for (let s = start; s < end; s++) values[s] = this.features.values[column + samples[s]];
+    if (end - start < distinctCount * countingSortShare) {
+      const x = this.features.values;
+      for (let s = start; s < end; s++) values[s] = x[column + samples[s]];
       sortTogether(values, samples, start, end);
       return;
     }

@@ -310,13 +310,13 @@ const corpusLearners = [...new Set(pilots.filter(learnable).map((p) => p.learner
  */
 function learnSet(train: readonly CorpusPilot[], variant: Variant, learnSpread: boolean): CalibrationSet | null {
   if (variant.terms.length === 0) return null;
-  const learnable_ = train.filter(learnable);
+  const classificationCurves = train.filter(learnable);
   const byLearner: Record<string, GainCalibration> = {};
   if (variant.perLearner === true) {
     for (const learner of corpusLearners) {
       byLearner[learner] = {
         ...learnCalibration(
-          learnable_.filter((p) => p.learner === learner),
+          classificationCurves.filter((p) => p.learner === learner),
           variant,
           learnSpread,
         ),
@@ -324,7 +324,7 @@ function learnSet(train: readonly CorpusPilot[], variant: Variant, learnSpread: 
       };
     }
   }
-  return { pooled: learnCalibration(learnable_, variant, learnSpread), byLearner };
+  return { pooled: learnCalibration(classificationCurves, variant, learnSpread), byLearner };
 }
 
 function results(pilot: CorpusPilot, set: CalibrationSet | null): CaseResult[] {

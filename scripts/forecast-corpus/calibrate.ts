@@ -10,7 +10,8 @@
  *    refitted parameters, shared shift, extrapolation error). They do not depend on the correction,
  *    so they are computed once (`--cache FILE` keeps them between runs).
  * 2. For each data set D, a continuation (gainCorrection.ts) is learned from the other data sets'
- *    classification cases only (leave-one-data-set-out; both learners of D are left out): the weights
+ *    classification cases only (leave-one-data-set-out; both learners of D are left out), once from
+ *    all of them (the pooled one) and, for a per-learner variant, once from each learner's: the weights
  *    of the variant's terms by weighted least squares of truth − Σ w_f m_f(L) on the terms (each
  *    data set weighing the same), constrained so that the summed forecast gain equals the summed
  *    gain measured later (calibration in the large); then the spread (multiplier of the families'
@@ -18,7 +19,7 @@
  *    training cases. D's cases are forecast with that continuation.
  * 3. Prints the leave-one-data-set-out figures of each variant tried (spread 1), then the chosen
  *    one's tables (`--variant NAME` chooses another).
- * 4. With `--write`: the calibration learned from every data set goes to
+ * 4. With `--write`: the calibrations learned from every data set go to
  *    src/forecast/corpusCalibration.ts, and each data set's leave-one-out calibration to
  *    fixtures/forecast-corpus/leave-one-out.json (for evaluate-corpus.ts and the test).
  */
@@ -30,7 +31,13 @@ import { measuredCurve } from "../../src/forecast/measuredCurve.js";
 import { sampleShift } from "../../src/forecast/sampleUncertainty.js";
 import { findCurveFamily, orientedRange } from "../../src/fit/families.js";
 import { quantileSorted } from "../../src/forecast/quantile.js";
-import { continuedGain, type Continuation, type GainCalibration } from "../../src/forecast/gainCorrection.js";
+import {
+  calibrationFor,
+  continuedGain,
+  type CalibrationSet,
+  type Continuation,
+  type GainCalibration,
+} from "../../src/forecast/gainCorrection.js";
 import { bestScore, findMetric } from "../../src/curve/metrics.js";
 import { readCorpus } from "./corpus.js";
 import { caseOf, corpusPilots, summarise, summaryTable, type CaseResult, type CorpusPilot } from "./cases.js";
@@ -170,6 +177,8 @@ interface Variant {
   terms: ("own" | "chord" | "slope" | "headroom")[];
   /** Whether the summed forecast gain is held to the summed true gain. */
   constrained: boolean;
+  /** Whether each corpus learner gets its own weights and spread (besides the pooled ones). */
+  perLearner?: boolean;
 }
 
 /**
@@ -279,12 +288,7 @@ function coverageOf(train: readonly CorpusPilot[], calibration: GainCalibration)
  * The continuation's weights, then the spread (to a 0.05 step, from 0.25 to 4) whose intervals hold
  * the truth in the share of the training cases closest to 0.82, by bisection (coverage grows with it).
  */
-function learnCalibration(
-  train: readonly CorpusPilot[],
-  variant: Variant,
-  learnSpread: boolean,
-): GainCalibration | null {
-  if (variant.terms.length === 0) return null;
+function learnCalibration(train: readonly CorpusPilot[], variant: Variant, learnSpread: boolean): GainCalibration {
   const weights = learnWeights(train, variant);
   if (!learnSpread) return { ...weights, spread: 1 };
   let low = 0.25;
@@ -297,7 +301,34 @@ function learnCalibration(
   return { ...weights, spread: Math.round(((low + high) / 2) * 20) / 20 };
 }
 
-function results(pilot: CorpusPilot, calibration: GainCalibration | null): CaseResult[] {
+/** The classification learners of the corpus. */
+const corpusLearners = [...new Set(pilots.filter(learnable).map((p) => p.learner))].sort();
+
+/**
+ * The pooled calibration (every learnable curve of `train`) and, for a per-learner variant, one per
+ * corpus learner from that learner's curves alone.
+ */
+function learnSet(train: readonly CorpusPilot[], variant: Variant, learnSpread: boolean): CalibrationSet | null {
+  if (variant.terms.length === 0) return null;
+  const classificationCurves = train.filter(learnable);
+  const byLearner: Record<string, GainCalibration> = {};
+  if (variant.perLearner === true) {
+    for (const learner of corpusLearners) {
+      byLearner[learner] = {
+        ...learnCalibration(
+          classificationCurves.filter((p) => p.learner === learner),
+          variant,
+          learnSpread,
+        ),
+        learner,
+      };
+    }
+  }
+  return { pooled: learnCalibration(classificationCurves, variant, learnSpread), byLearner };
+}
+
+function results(pilot: CorpusPilot, set: CalibrationSet | null): CaseResult[] {
+  const calibration = set === null ? null : calibrationFor(set, pilot.learner);
   return pilot.targets.map((t) => ({
     ...caseOf(pilot, t),
     ...forecastCase(pilot, calibration, t.size),
@@ -308,12 +339,12 @@ function results(pilot: CorpusPilot, calibration: GainCalibration | null): CaseR
 function leaveOneOut(
   variant: Variant,
   learnSpread: boolean,
-): { rows: CaseResult[]; calibrations: Record<string, GainCalibration | null> } {
+): { rows: CaseResult[]; calibrations: Record<string, CalibrationSet | null> } {
   const rows: CaseResult[] = [];
-  const calibrations: Record<string, GainCalibration | null> = {};
+  const calibrations: Record<string, CalibrationSet | null> = {};
   for (const dataSet of [...new Set(usable.map((p) => p.dataSet))]) {
-    const calibration = learnCalibration(
-      usable.filter((p) => p.dataSet !== dataSet && learnable(p)),
+    const calibration = learnSet(
+      usable.filter((p) => p.dataSet !== dataSet),
       variant,
       learnSpread,
     );
@@ -332,6 +363,12 @@ const variants: Variant[] = [
   { name: "chord + distance left, calibrated in the large", terms: ["chord", "headroom"], constrained: true },
   { name: "slope + distance left, calibrated in the large", terms: ["slope", "headroom"], constrained: true },
   {
+    name: "slope + distance left, calibrated in the large, per learner",
+    terms: ["slope", "headroom"],
+    constrained: true,
+    perLearner: true,
+  },
+  {
     name: "chord + slope + distance left, calibrated in the large",
     terms: ["chord", "slope", "headroom"],
     constrained: true,
@@ -349,7 +386,7 @@ const variants: Variant[] = [
   },
 ];
 const chosen = variants.find(
-  (v) => v.name === (option("--variant") ?? "slope + distance left, calibrated in the large"),
+  (v) => v.name === (option("--variant") ?? "slope + distance left, calibrated in the large, per learner"),
 ) as Variant;
 const groups: [string, (r: CaseResult) => boolean][] = [
   ["logistic", (r) => r.learner === "logistic"],
@@ -372,13 +409,18 @@ for (const variant of variants) {
 const { rows, calibrations } = chosenRun as ReturnType<typeof leaveOneOut>;
 console.log(`\nchosen: ${chosen.name} (leave-one-data-set-out)`);
 for (const [label, keep] of groups) console.log(summaryTable(rows.filter(keep), `\n${label}`).join("\n"));
-const full = learnCalibration(usable.filter(learnable), chosen, true) as GainCalibration;
-const rounded: GainCalibration = {
-  ownWeight: Number(full.ownWeight.toFixed(4)),
-  chordWeight: Number(full.chordWeight.toFixed(4)),
-  slopeWeight: Number(full.slopeWeight.toFixed(4)),
-  headroomWeight: Number(full.headroomWeight.toFixed(4)),
-  spread: full.spread,
+const full = learnSet(usable, chosen, true) as CalibrationSet;
+const round = (c: GainCalibration): GainCalibration => ({
+  ownWeight: Number(c.ownWeight.toFixed(4)),
+  chordWeight: Number(c.chordWeight.toFixed(4)),
+  slopeWeight: Number(c.slopeWeight.toFixed(4)),
+  headroomWeight: Number(c.headroomWeight.toFixed(4)),
+  spread: c.spread,
+  ...(c.learner === undefined ? {} : { learner: c.learner }),
+});
+const rounded: CalibrationSet = {
+  pooled: round(full.pooled),
+  byLearner: Object.fromEntries(Object.entries(full.byLearner).map(([name, c]) => [name, round(c)])),
 };
 console.log(`\nlearned from every data set: ${JSON.stringify(rounded)}`);
 
@@ -401,13 +443,9 @@ if (write) {
  * forest, accuracy), pilots of 50 to 400 rows, targets 2 to 16 times the pilot; variant
  * "${chosen.name}". Checked leave-one-data-set-out: see the README's forecast section.
  */
-import type { GainCalibration } from "./gainCorrection.js";
+import type { CalibrationSet } from "./gainCorrection.js";
 
-export const corpusCalibration: GainCalibration = ${JSON.stringify(rounded)
-      .replace(/"(\w+)":/g, "$1: ")
-      .replace(/,/g, ", ")
-      .replace("{", "{ ")
-      .replace("}", " }")};
+export const corpusCalibration: CalibrationSet = ${JSON.stringify(rounded, null, 2)};
 `,
   );
 }

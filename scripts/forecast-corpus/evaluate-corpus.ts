@@ -12,7 +12,7 @@
  * cases.ts (`summaryTable`) for logistic regression, random forest and the numeric targets.
  */
 import { readFileSync, writeFileSync } from "node:fs";
-import { shippedCalibration, type GainCalibration } from "../../src/forecast/gainCorrection.js";
+import { calibrationFor, shippedCalibrations, type CalibrationSet } from "../../src/forecast/gainCorrection.js";
 import { readCorpus } from "./corpus.js";
 import { corpusPilots, forecastPilot, summaryTable, type CaseResult } from "./cases.js";
 
@@ -25,19 +25,19 @@ const corpusDir = option("--corpus") ?? "fixtures/forecast-corpus";
 const only = option("--only")?.split(",");
 const leaveOneOut = JSON.parse(readFileSync(`${corpusDir}/leave-one-out.json`, "utf8")) as Record<
   string,
-  GainCalibration | null
+  CalibrationSet | null
 >;
 const started = performance.now();
 const rows: CaseResult[] = [];
 for (const pilot of corpusPilots(readCorpus(corpusDir))) {
   if (only !== undefined && !only.includes(pilot.dataSet)) continue;
-  const calibration = argv.includes("--uncalibrated")
+  const set = argv.includes("--uncalibrated")
     ? null
     : argv.includes("--shipped")
-      ? shippedCalibration
+      ? shippedCalibrations
       : leaveOneOut[pilot.dataSet];
-  if (calibration === undefined) throw new Error(`no leave-one-out calibration for ${pilot.dataSet}`);
-  rows.push(...forecastPilot(pilot, calibration));
+  if (set === undefined) throw new Error(`no leave-one-out calibration for ${pilot.dataSet}`);
+  rows.push(...forecastPilot(pilot, set === null ? null : calibrationFor(set, pilot.learner)));
 }
 const groups: [string, (r: CaseResult) => boolean][] = [
   ["logistic regression (accuracy)", (r) => r.learner === "logistic"],

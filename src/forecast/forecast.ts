@@ -11,7 +11,7 @@ import { message } from "../messages.js";
 import { assessFamilies, type AssessedFamily } from "./backtest.js";
 import { drawCurves, drawnValue } from "./drawCurves.js";
 import { expectedValue, scoreLimits, storeCurve, storeFit, type WeightedFit } from "./storedCurves.js";
-import { shippedCalibration, type Continuation, type GainCalibration } from "./gainCorrection.js";
+import { calibrationFor, shippedCalibrations, type Continuation, type GainCalibration } from "./gainCorrection.js";
 import type { BandPoint, ForecastFile, Projection } from "./forecastFile.js";
 import { forecastWarnings } from "./forecastWarnings.js";
 import { measuredCurve } from "./measuredCurve.js";
@@ -67,7 +67,8 @@ export interface ForecastOptions {
    * The continuation learned from the corpus of measured curves (`gainCorrection.ts`); the corpus
    * evaluation passes one learned without the data set it forecasts; null turns it off (each family
    * extrapolates by its own formula, as with `family`).
-   * @default the shipped calibration
+   * @default the shipped calibration for the curve's learner (the pooled one for a learner the
+   *   corpus did not measure)
    */
   calibration?: GainCalibration | null;
 }
@@ -140,7 +141,11 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
     throw new UsageError(message.testSizeNotWhole(testSize), { option: "testSize" });
   }
   const calibration =
-    family !== undefined ? null : options.calibration === undefined ? shippedCalibration : options.calibration;
+    family !== undefined
+      ? null
+      : options.calibration === undefined
+        ? calibrationFor(shippedCalibrations, curve.learner)
+        : options.calibration;
   return { at, level, seed, draws, family, target, confidence, testSize, calibration };
 }
 
@@ -339,6 +344,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
       slopeWeight: continuation.slopeWeight,
       headroomWeight: continuation.headroomWeight,
       spread: calibration.spread,
+      learnedFrom: calibration.learner ?? null,
       smallestSize: continuation.smallestSize,
       best: continuation.best === null ? null : sign * continuation.best + 0,
     };

@@ -150,6 +150,11 @@ export interface ForecastFile {
     slopeWeight: number;
     headroomWeight: number;
     spread: number;
+    /**
+     * The learner whose corpus curves the numbers were learned from; null: the classification curves
+     * of every learner in the corpus (for a learner it did not measure). Absent in earlier files.
+     */
+    learnedFrom?: string | null;
     /** Smallest measured size (n₁). */
     smallestSize: number;
     /** The metric's best value, in the metric's units; null when unknown. */

@@ -27,6 +27,11 @@
  * compares the variants leave-one-data-set-out; the one shipped keeps the slope at L and the distance
  * left (o = c = 0): the family's own gain and the chord did not lower the error further.
  *
+ * The weights and the spread are learned once per learner the corpus measured (logistic regression
+ * and random forest: their curves differ in shape, the forest's keeping its slope longer, and one
+ * spread for both left one learner's intervals too wide and the other's too narrow), and once from
+ * every classification curve of the corpus, for any other learner and for `--trainer`.
+ *
  * A family chosen with `--family` is used as it extrapolates, without this continuation.
  */
 import { corpusCalibration } from "./corpusCalibration.js";
@@ -42,6 +47,23 @@ export interface GainCalibration {
   headroomWeight: number;
   /** Multiplier of every family's extrapolation error τ. */
   spread: number;
+  /** The learner whose corpus curves these were learned from; absent: every classification curve. */
+  learner?: string;
+}
+
+/** The continuations learned from the corpus: one per learner it measured, one from all its curves. */
+export interface CalibrationSet {
+  /** Learned from the classification curves of every learner: for a learner the corpus lacks. */
+  pooled: GainCalibration;
+  /** Learned from one learner's curves, by the learner's name (curve.json's `learner`). */
+  byLearner: Record<string, GainCalibration>;
+}
+
+/** The calibration for a curve of `learner`: its own when the corpus measured it, else the pooled one. */
+export function calibrationFor(set: CalibrationSet, learner: string | undefined): GainCalibration {
+  return (
+    (learner !== undefined && Object.hasOwn(set.byLearner, learner) ? set.byLearner[learner] : undefined) ?? set.pooled
+  );
 }
 
 /** A draw's continuation beyond the largest measured size (see the file comment). */
@@ -56,8 +78,8 @@ export interface Continuation {
   best: number | null;
 }
 
-/** The calibration shipped with headroom (learned from the whole corpus). */
-export const shippedCalibration: GainCalibration = corpusCalibration;
+/** The calibrations shipped with headroom (learned from the whole corpus). */
+export const shippedCalibrations: CalibrationSet = corpusCalibration;
 
 /** Step in ln n of the central difference that gives a family's slope at L. */
 const slopeStep = 0.01;

@@ -8,18 +8,43 @@ import type { ForecastFile } from "../forecast/forecastFile.js";
 export function learnedForecastText(forecast: ForecastFile): string | undefined {
   const c = forecast.continuation;
   if (c === undefined) return undefined;
+  const terms = [
+    [c.chordWeight, "its average rise per unit of ln n over the measured sizes"],
+    [c.slopeWeight, "its slope at L"],
+    [
+      c.headroomWeight,
+      `the distance left to the metric's best value${c.best === null ? " (unknown for this metric, so left out)" : ""}`,
+    ],
+  ] as const;
+  const gain =
+    terms
+      .filter(([weight]) => weight !== 0)
+      .map(([weight, what]) => `${weight.toFixed(3)} × ${what}`)
+      .join(" + ") || "0";
+  const own = c.ownWeight === 0 ? "" : `${c.ownWeight.toFixed(3)} × the gain its family's formula forecasts, plus `;
   return (
     `Beyond the largest measured size L the forecast does not follow the families' own formulas: each drawn ` +
-    `curve, and the expected score, continues from its value at L by ${c.ownWeight.toFixed(3)} × the gain its ` +
-    `family's formula forecasts, plus a gain per unit of ln(n / L) of ${c.chordWeight.toFixed(3)} × its average rise per unit of ln n over the measured sizes + ` +
-    `${c.slopeWeight.toFixed(3)} × its slope at L + ${c.headroomWeight.toFixed(3)} × the distance left to the ` +
-    `metric's best value${c.best === null ? " (unknown for this metric, so left out)" : ""}; each family's ` +
-    `extrapolation error is multiplied by ${c.spread}. These numbers were learned by stacked regression from a ` +
-    `corpus of learning curves measured by this tool on open data sets (classification and regression, ` +
-    `logistic regression, random forest, ridge and nearest neighbours; pilots of 50 to 400 rows; the score ` +
-    `measured later on the whole data set at 2 to 16 times the pilot), fitted so that the summed forecast gain ` +
-    `matches the summed gain measured later. They were checked leave-one-data-set-out: each data set was ` +
-    `forecast with numbers learned from the others only; the project's README gives the figures. Far beyond ` +
+    `curve, and the expected score, continues from its value at L by ${own}a gain per unit of ln(n / L) of ` +
+    `${gain}; each family's extrapolation error is multiplied by ${c.spread}. These numbers were learned by ` +
+    `stacked regression from a ` +
+    `corpus of learning curves measured by this tool on open data sets (pilots of 50 to 400 rows; the score ` +
+    `measured later on the whole data set at 2 to 16 times the pilot), ${learnedFromText(c.learnedFrom)}, ` +
+    `fitted so that the summed forecast gain matches the summed gain measured later. They were checked ` +
+    `leave-one-data-set-out: each data set was forecast with numbers learned from the others only; the ` +
+    `project's README gives the figures. Far beyond ` +
     `16 times the pilot the corpus gives no check.`
+  );
+}
+
+/** Which of the corpus's curves the continuation was learned from. */
+function learnedFromText(learner: string | null | undefined): string {
+  if (learner === "logistic") return "from its logistic regression curves";
+  if (learner === "forest") return "from its random forest curves";
+  if (typeof learner === "string") return `from its curves of the learner "${learner}"`;
+  // A file written before the continuation was learned per learner does not say.
+  if (learner === undefined) return "from its classification curves";
+  return (
+    "from the classification curves of both learners it holds (logistic regression and random forest), " +
+    "as it holds no curves of this learner"
   );
 }

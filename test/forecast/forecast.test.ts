@@ -8,7 +8,7 @@ import {
   resolveForecastOptions,
   type ForecastOptions,
 } from "../../src/forecast/forecast.js";
-import { continuedGain, shippedCalibration } from "../../src/forecast/gainCorrection.js";
+import { continuedGain, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
 import { RandomStream } from "../../src/random.js";
 
 /**
@@ -617,7 +617,8 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
     // On exact pow3 points pow3 takes nearly all the weight, so the expected score is pow3's value at
     // L plus its continued gain written out by hand: o·(m(n) − m(L)) + (c·chord + s·slope +
     // h·(1 − m(L)))·ln(n / L), with pow3's slope per unit of ln n at L, c·b·L^(−c), in closed form.
-    const { ownWeight, chordWeight, slopeWeight, headroomWeight } = shippedCalibration;
+    // The curve names no learner, so the pooled calibration applies.
+    const { ownWeight, chordWeight, slopeWeight, headroomWeight } = shippedCalibrations.pooled;
     const m = accuracyTruth;
     const smallest = 25;
     const n = 5000;
@@ -635,8 +636,32 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
   });
 
   it("writes the continuation it used into forecast.json", () => {
-    expect(learned.continuation).toEqual({ ...shippedCalibration, smallestSize: 25, best: 1 });
+    expect(learned.continuation).toEqual({
+      ...shippedCalibrations.pooled,
+      learnedFrom: null,
+      smallestSize: 25,
+      best: 1,
+    });
     expect(own.continuation).toBeUndefined();
+  });
+
+  it("uses the continuation learned from the curve's own learner where the corpus has it, else the pooled one", () => {
+    for (const learner of Object.keys(shippedCalibrations.byLearner)) {
+      const own = shippedCalibrations.byLearner[learner];
+      const forecast = forecastCurve(curveOf(exactPoints(accuracyTruth), { learner }), { draws: 20 });
+      expect(forecast.continuation).toMatchObject({
+        slopeWeight: own.slopeWeight,
+        spread: own.spread,
+        learnedFrom: learner,
+      });
+    }
+    const other = forecastCurve(curveOf(exactPoints(accuracyTruth), { learner: "svm" }), { draws: 20 });
+    expect(other.continuation).toMatchObject({
+      slopeWeight: shippedCalibrations.pooled.slopeWeight,
+      learnedFrom: null,
+    });
+    // The per-learner weights differ from the pooled ones, or the choice would go unseen.
+    expect(shippedCalibrations.byLearner.forest.slopeWeight).not.toBe(shippedCalibrations.pooled.slopeWeight);
   });
 
   it("is left out when a family is forced (--family)", () => {

@@ -1,0 +1,53 @@
+/**
+ * The methods appendix's paragraph on the learned continuation: it states the numbers the forecast
+ * used (from forecast.json's `continuation`) and which of the corpus's curves they were learned from.
+ */
+import { describe, expect, it } from "vitest";
+import type { ForecastFile } from "../../src/forecast/forecastFile.js";
+import { learnedForecastText } from "../../src/report/forecastMethodText.js";
+
+function forecastWith(continuation: ForecastFile["continuation"]): ForecastFile {
+  return { continuation } as ForecastFile;
+}
+
+const base = {
+  ownWeight: 0,
+  chordWeight: 0,
+  slopeWeight: 0.5568,
+  headroomWeight: 0.0602,
+  spread: 1,
+  smallestSize: 23,
+  best: 1,
+};
+
+describe("learnedForecastText", () => {
+  it("is absent when the forecast followed a family's own formula", () => {
+    expect(learnedForecastText(forecastWith(undefined))).toBeUndefined();
+  });
+
+  it("gives the weights the forecast used", () => {
+    const text = learnedForecastText(forecastWith({ ...base, learnedFrom: "forest" })) as string;
+    expect(text).toContain("0.557 × its slope at L");
+    expect(text).toContain("0.060 × the distance left");
+    expect(text).toContain("multiplied by 1.");
+    // Terms with no weight are left out of the sentence.
+    expect(text).not.toContain("0.000");
+    expect(learnedForecastText(forecastWith({ ...base, chordWeight: 0.25, learnedFrom: null }))).toContain(
+      "0.250 × its average rise",
+    );
+  });
+
+  it.each([
+    ["forest", "from its random forest curves"],
+    ["logistic", "from its logistic regression curves"],
+    [null, "as it holds no curves of this learner"],
+  ] as const)("names the corpus curves it learned from (%s)", (learnedFrom, words) => {
+    expect(learnedForecastText(forecastWith({ ...base, learnedFrom }))).toContain(words);
+  });
+
+  it("does not claim a learner for a file written before the continuation was learned per learner", () => {
+    const text = learnedForecastText(forecastWith(base)) as string;
+    expect(text).toContain("from its classification curves");
+    expect(text).not.toContain("no curves of this learner");
+  });
+});

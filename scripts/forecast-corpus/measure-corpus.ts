@@ -4,12 +4,12 @@
  *
  *     /usr/bin/python3 scripts/forecast-corpus/export_data.py /tmp/corpus-data
  *     npx tsx scripts/forecast-corpus/measure-corpus.ts --data /tmp/corpus-data [--out fixtures/forecast-corpus]
- *                                                       [--only NAME,...]
+ *                                                       [--only NAME,...] [--add-pilots]
  *
  * For each data set and learner (classification: logistic regression and random forest, scored by
  * accuracy; numeric target: ridge regression and k-nearest neighbours, scored by R²), one file
  * `NAME--LEARNER.json.gz` holding:
- * - pilots: for pilot sizes of 50, 100, 200 and 400 rows (those with room for targets at least twice
+ * - pilots: for pilot sizes of 50, 100, 200, 400 and 800 rows (those with room for targets at least twice
  *   the pilot, and with every class expected at least 6 times), several pilot draws (6; 4 for the
  *   slow random forest), each a stratified (for classes) or simple random subset of the data set,
  *   measured with headroom's own `measureCurve` at its defaults (5 folds × 10 repeats, 8 sizes), so
@@ -23,11 +23,14 @@
  *
  * A data set of more than 3,000 rows is first cut to a fixed random 3,000 (stratified for classes),
  * which then stands for the whole population. Files already written are kept, so an interrupted run
- * continues where it stopped (`--only` narrows it). Runs on one thread.
+ * continues where it stopped (`--only` narrows it); with `--add-pilots` a file already written gets
+ * the pilots of the sizes it lacks, and its truth and other pilots are kept as they are (each pilot
+ * draws from its own random stream, so the ones added do not depend on those kept). Runs on one
+ * thread.
  */
-import { existsSync, mkdirSync, writeFileSync, renameSync } from "node:fs";
+import { existsSync, mkdirSync, readFileSync, writeFileSync, renameSync } from "node:fs";
 import { join } from "node:path";
-import { gzipSync } from "node:zlib";
+import { gunzipSync, gzipSync } from "node:zlib";
 import type { CurveFile } from "../../src/curve/curveFile.js";
 import { readCsv } from "../../src/data/csv.js";
 import type { Dataset } from "../../src/data/dataset.js";
@@ -48,10 +51,11 @@ function option(name: string): string | undefined {
 const dataDir = option("--data") ?? "/tmp/corpus-data";
 const outDir = option("--out") ?? "fixtures/forecast-corpus";
 const only = option("--only")?.split(",");
+const addPilots = argv.includes("--add-pilots");
 mkdirSync(outDir, { recursive: true });
 
 const largestRows = 3000;
-const pilotSizes = [50, 100, 200, 400];
+const pilotSizes = [50, 100, 200, 400, 800];
 /** Stream tags (first path index) of this script's draws. */
 const stream = { cap: 6001, pilot: 6002, truthOrder: 6003, truthFit: 6004 };
 
@@ -132,31 +136,38 @@ for (const spec of corpusDataSets) {
   const pilots = pilotSizes.filter((p) => 2 * p <= largestTruth && p * smallestClassShare >= 6);
   for (const learner of spec.learners) {
     const file = join(outDir, `${spec.name}--${learner}.json.gz`);
-    if (existsSync(file)) continue;
+    const earlier = existsSync(file)
+      ? (JSON.parse(gunzipSync(readFileSync(file)).toString("utf8")) as CorpusFile)
+      : undefined;
+    if (earlier !== undefined && !addPilots) continue;
+    const missing = pilots.filter((size) => earlier === undefined || !earlier.pilots.some((p) => p.size === size));
+    if (missing.length === 0) continue;
     const started = performance.now();
     const metric = regression ? "r2" : "accuracy";
     const slow = learner === "forest";
-    const truth = truthSizes.map((n) => {
-      const draws = Math.max(slow ? 3 : 0, Math.round((n <= 320 ? 16 : n <= 1000 ? 8 : 4) / (slow ? 2 : 1)));
-      const scores: number[] = [];
-      for (let d = 0; d < draws; d++) {
-        const rows = order(data, new RandomStream(stream.truthOrder, n, d));
-        scores.push(
-          heldOutScore(
-            subset(data, rows.subarray(0, n)),
-            subset(data, rows.subarray(n)),
-            learner,
-            metric,
-            new RandomStream(stream.truthFit, n, d),
-          ),
-        );
-      }
-      const m = mean(scores);
-      const sd = Math.sqrt(scores.reduce((s, x) => s + (x - m) ** 2, 0) / Math.max(1, scores.length - 1));
-      return { size: n, mean: round(m), sd: round(sd), draws };
-    });
-    const pilotCurves: CorpusFile["pilots"] = [];
-    for (const size of pilots) {
+    const truth =
+      earlier?.truth ??
+      truthSizes.map((n) => {
+        const draws = Math.max(slow ? 3 : 0, Math.round((n <= 320 ? 16 : n <= 1000 ? 8 : 4) / (slow ? 2 : 1)));
+        const scores: number[] = [];
+        for (let d = 0; d < draws; d++) {
+          const rows = order(data, new RandomStream(stream.truthOrder, n, d));
+          scores.push(
+            heldOutScore(
+              subset(data, rows.subarray(0, n)),
+              subset(data, rows.subarray(n)),
+              learner,
+              metric,
+              new RandomStream(stream.truthFit, n, d),
+            ),
+          );
+        }
+        const m = mean(scores);
+        const sd = Math.sqrt(scores.reduce((s, x) => s + (x - m) ** 2, 0) / Math.max(1, scores.length - 1));
+        return { size: n, mean: round(m), sd: round(sd), draws };
+      });
+    const pilotCurves: CorpusFile["pilots"] = earlier?.pilots.slice() ?? [];
+    for (const size of missing) {
       for (let draw = 1; draw <= (slow ? 4 : 6); draw++) {
         let rows: Int32Array | undefined;
         for (let attempt = 0; attempt < 50 && rows === undefined; attempt++) {
@@ -176,6 +187,7 @@ for (const spec of corpusDataSets) {
         pilotCurves.push({ size, draw, curve });
       }
     }
+    pilotCurves.sort((p, q) => p.size - q.size || p.draw - q.draw);
     const record: CorpusFile = {
       kind: "headroom-forecast-corpus",
       dataSet: spec.name,

@@ -25,6 +25,7 @@
  */
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import { Matrix, solve } from "ml-matrix";
+import { format, resolveConfig } from "prettier";
 import { assessFamilies } from "../../src/forecast/backtest.js";
 import { drawCurves, drawnValue, type DrawnCurve } from "../../src/forecast/drawCurves.js";
 import { measuredCurve } from "../../src/forecast/measuredCurve.js";
@@ -39,6 +40,7 @@ import {
   type GainCalibration,
 } from "../../src/forecast/gainCorrection.js";
 import { bestScore, findMetric } from "../../src/curve/metrics.js";
+import { RandomStream } from "../../src/random.js";
 import { readCorpus } from "./corpus.js";
 import { caseOf, corpusPilots, summarise, summaryTable, type CaseResult, type CorpusPilot } from "./cases.js";
 
@@ -107,6 +109,17 @@ if (cacheFile !== undefined && computed > 0) writeFileSync(cacheFile, JSON.strin
 
 const usable = pilots.filter((p) => cache[keyOf(p)] != null);
 /**
+ * The standard normals of the learned gain's error, one per draw of each pilot (the cached draws hold
+ * none; `forecastCurve` draws its own from each draw's stream). Each pilot has its own, as each
+ * forecast has: normals shared by every pilot would shift every interval the same way.
+ */
+const gainNormals = new Map(
+  usable.map((p, i) => {
+    const random = new RandomStream(6201, i);
+    return [keyOf(p), Array.from({ length: (cache[keyOf(p)] as Parts).draws.length }, () => random.normal())];
+  }),
+);
+/**
  * The continuation is learned from the classification curves (accuracy) only: a pilot's R² on a
  * numeric target swings by tens of points (R² far below 0 on small training sets), so those cases
  * would swamp the fit; the numeric targets' figures are reported as a check out of the sample.
@@ -123,6 +136,7 @@ function continuationOf(pilot: CorpusPilot, calibration: GainCalibration | null)
     chordWeight: calibration.chordWeight,
     slopeWeight: calibration.slopeWeight,
     headroomWeight: calibration.headroomWeight,
+    gainSpread: calibration.gainSpread,
     smallestSize: pilot.curve.points[0].trainingSize,
     best: best === undefined ? null : sign * best,
   };
@@ -140,23 +154,40 @@ function forecastCase(
     parts.range === undefined ? v : Math.min(parts.range[1], Math.max(parts.range[0], v));
   const continuation = continuationOf(pilot, calibration);
   const spread = calibration?.spread ?? 1;
-  const drawn = (name: string, parameters: number[], shift: number, extrapolation: number): DrawnCurve => ({
+  const normals = gainNormals.get(keyOf(pilot)) as number[];
+  const drawn = (
+    name: string,
+    parameters: number[],
+    shift: number,
+    extrapolation: number,
+    gainError: number,
+  ): DrawnCurve => ({
     family: findCurveFamily(name),
     parameters,
     shift,
     extrapolation,
     continuation,
+    gainError,
   });
   const point = clamp(
-    parts.families.reduce((s, f) => s + f.weight * drawnValue(drawn(f.name, f.parameters, 0, 0), n, pilot.largest), 0),
+    parts.families.reduce(
+      (s, f) => s + f.weight * drawnValue(drawn(f.name, f.parameters, 0, 0, 0), n, pilot.largest),
+      0,
+    ),
   );
   const values = parts.draws
     .slice(0, Math.min(drawLimit, parts.draws.length))
     .map(
-      (d) =>
+      (d, j) =>
         parts.sign *
         drawnValue(
-          drawn(parts.families[d.family].name, d.parameters, d.shift, spread * d.extrapolation),
+          drawn(
+            parts.families[d.family].name,
+            d.parameters,
+            d.shift,
+            spread * d.extrapolation,
+            (continuation?.gainSpread ?? 0) * normals[j],
+          ),
           n,
           pilot.largest,
           parts.range,
@@ -206,6 +237,7 @@ function learnWeights(
       slopeWeight: 0,
       headroomWeight: 0,
       spread: 1,
+      gainSpread: 0,
     }) as Continuation;
     const weight = 1 / (perDataSet.get(p.dataSet) as number);
     let anchor = 0;
@@ -270,35 +302,55 @@ function learnWeights(
 
 const targetCoverage = 0.82;
 
-/** Share of the cases whose 80% interval (from the first 50 draws) holds the truth. */
-function coverageOf(train: readonly CorpusPilot[], calibration: GainCalibration): number {
-  let inside = 0;
-  let count = 0;
+/**
+ * Share of the cases whose 80% interval (from the first 50 draws) holds the truth, overall and for
+ * each pilot size.
+ */
+function coverageOf(
+  train: readonly CorpusPilot[],
+  calibration: GainCalibration,
+): { overall: number; bySize: Map<number, number> } {
+  const inside = new Map<number, number>();
+  const count = new Map<number, number>();
   for (const p of train) {
     for (const t of p.targets) {
       const f = forecastCase(p, calibration, t.size, 50);
-      inside += f.lower <= t.truth && t.truth <= f.upper ? 1 : 0;
-      count++;
+      inside.set(p.size, (inside.get(p.size) ?? 0) + (f.lower <= t.truth && t.truth <= f.upper ? 1 : 0));
+      count.set(p.size, (count.get(p.size) ?? 0) + 1);
     }
   }
-  return inside / count;
+  const sum = (m: Map<number, number>): number => [...m.values()].reduce((a, b) => a + b, 0);
+  const bySize = new Map([...count].map(([size, n]) => [size, (inside.get(size) ?? 0) / n]));
+  return { overall: sum(inside) / sum(count), bySize };
 }
 
+/** The learned gain's error tried (per unit of ln(n / L)). */
+const gainSpreads = [0, 0.005, 0.01, 0.015];
+
 /**
- * The continuation's weights, then the spread (to a 0.05 step, from 0.25 to 4) whose intervals hold
- * the truth in the share of the training cases closest to 0.82, by bisection (coverage grows with it).
+ * The continuation's weights, then its two widths. For each gain spread tried, the spread (to a 0.05
+ * step, from 0 to 4) whose intervals hold the truth in the share of the training cases closest to
+ * 0.82, by bisection (coverage grows with it); of those pairs, the one whose coverage is most even
+ * across pilot sizes (least squared distance from 0.82, each pilot size counting the same).
  */
 function learnCalibration(train: readonly CorpusPilot[], variant: Variant, learnSpread: boolean): GainCalibration {
   const weights = learnWeights(train, variant);
-  if (!learnSpread) return { ...weights, spread: 1 };
-  let low = 0.25;
-  let high = 4;
-  while (high - low > 0.05) {
-    const middle = (low + high) / 2;
-    if (coverageOf(train, { ...weights, spread: middle }) < targetCoverage) low = middle;
-    else high = middle;
+  if (!learnSpread) return { ...weights, spread: 1, gainSpread: 0 };
+  let best: { calibration: GainCalibration; unevenness: number } | undefined;
+  for (const gainSpread of gainSpreads) {
+    let low = 0;
+    let high = 4;
+    while (high - low > 0.05) {
+      const middle = (low + high) / 2;
+      if (coverageOf(train, { ...weights, spread: middle, gainSpread }).overall < targetCoverage) low = middle;
+      else high = middle;
+    }
+    const calibration = { ...weights, spread: Math.round(((low + high) / 2) * 20) / 20, gainSpread };
+    const { bySize } = coverageOf(train, calibration);
+    const unevenness = [...bySize.values()].reduce((s, c) => s + (c - targetCoverage) ** 2, 0) / bySize.size;
+    if (best === undefined || unevenness < best.unevenness) best = { calibration, unevenness };
   }
-  return { ...weights, spread: Math.round(((low + high) / 2) * 20) / 20 };
+  return (best as { calibration: GainCalibration }).calibration;
 }
 
 /** The classification learners of the corpus. */
@@ -416,6 +468,7 @@ const round = (c: GainCalibration): GainCalibration => ({
   slopeWeight: Number(c.slopeWeight.toFixed(4)),
   headroomWeight: Number(c.headroomWeight.toFixed(4)),
   spread: c.spread,
+  gainSpread: c.gainSpread,
   ...(c.learner === undefined ? {} : { learner: c.learner }),
 });
 const rounded: CalibrationSet = {
@@ -430,22 +483,23 @@ console.log(`\nlearned from every data set: ${JSON.stringify(rounded)}`);
 const learnedPilots = usable.filter(learnable);
 const learnedCases = learnedPilots.reduce((s, p) => s + p.targets.length, 0);
 const learnedDataSets = new Set(learnedPilots.map((p) => p.dataSet)).size;
+const pilotSizes = learnedPilots.map((p) => p.size);
 if (write) {
   writeFileSync(`${corpusDir}/leave-one-out.json`, JSON.stringify(calibrations, null, 1) + "\n");
-  writeFileSync(
-    "src/forecast/corpusCalibration.ts",
-    `/**
+  const file = "src/forecast/corpusCalibration.ts";
+  const text = `/**
  * The forecast's learned continuation (gainCorrection.ts), written by
  * \`npx tsx scripts/forecast-corpus/calibrate.ts --write\`; do not edit by hand.
  *
  * Learned from the ${learnedPilots.length} classification pilot curves (${learnedCases} pilot-to-target cases) of the
  * ${learnedDataSets} classification data sets of fixtures/forecast-corpus (logistic regression and random
- * forest, accuracy), pilots of 50 to 400 rows, targets 2 to 16 times the pilot; variant
+ * forest, accuracy), pilots of ${Math.min(...pilotSizes)} to ${Math.max(...pilotSizes)} rows, targets 2 to 16 times the pilot; variant
  * "${chosen.name}". Checked leave-one-data-set-out: see the README's forecast section.
  */
 import type { CalibrationSet } from "./gainCorrection.js";
 
 export const corpusCalibration: CalibrationSet = ${JSON.stringify(rounded, null, 2)};
-`,
-  );
+`;
+  // Written as the project's formatter would write it, so that \`npm test\`'s format check passes.
+  writeFileSync(file, await format(text, { ...(await resolveConfig(file)), filepath: file }));
 }

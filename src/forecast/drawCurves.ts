@@ -19,7 +19,8 @@
  *    standard normal shared by every size beyond the largest measured one (`assessFamilies`);
  * 5. carries the continuation learned from the corpus of measured curves (`gainCorrection.ts`):
  *    beyond the largest measured size L the draw continues from its value at L by the learned gain
- *    instead of its family's formula (none with `--family`).
+ *    instead of its family's formula (none with `--family`), off by the learned gain's own error:
+ *    the continuation's `gainSpread` times one standard normal, per unit of ln(n / L).
  *
  * Deterministic for a seed: draw j uses the stream `StreamPurpose.curveDraw` (j) for its repeats and normals.
  */
@@ -48,6 +49,8 @@ export interface DrawnCurve {
   extrapolation: number;
   /** The learned continuation beyond the largest measured size, or null for the family's own ({@link drawnValue}). */
   continuation: Continuation | null;
+  /** The learned gain's error per unit of ln(n / L): gainSpread times a standard normal (0 without a continuation). */
+  gainError: number;
 }
 
 export interface DrawnCurves {
@@ -80,6 +83,8 @@ export function drawCurves(
     const resampled = resampledPoints(measured, labels, random).filter((p): p is OrientedPoint => p !== null);
     const shift = shiftStandardDeviation * random.normal();
     const extrapolation = assessed.extrapolationError * random.normal();
+    // Drawn after the draws above, so that they are the same with or without a continuation.
+    const gainError = (continuation?.gainSpread ?? 0) * random.normal();
     const refit = refitFamily(assessed.family, resampled, orientation, assessed.fit, result);
     if (refit === null) {
       result.dropped++;
@@ -91,6 +96,7 @@ export function drawCurves(
       shift,
       extrapolation,
       continuation,
+      gainError,
     });
   }
   if (result.curves.length === 0) {
@@ -102,7 +108,8 @@ export function drawCurves(
 /**
  * A draw's oriented value at size n, clamped to the oriented range when there is one. Up to the
  * largest measured size L: the family's value m(n) plus the shift. Beyond it, with d = ln(n / L):
- * the family's value m(n), or with a continuation m(L) + the learned gain (`continuedGain`), plus
+ * the family's value m(n), or with a continuation m(L) + the learned gain (`continuedGain`) + the
+ * gain's error `gainError · d`, plus
  * the shift and `extrapolation · sqrt(d)`. The one function that evaluates a draw (the point
  * forecast is a draw with no shift or extrapolation error).
  */
@@ -120,7 +127,10 @@ export function drawnValue(
     if (continuation === null) value = family.model(trainingSize, parameters);
     else {
       const model = (size: number): number => family.model(size, parameters);
-      value = model(largestMeasured) + continuedGain(continuation, model, largestMeasured, trainingSize);
+      value =
+        model(largestMeasured) +
+        continuedGain(continuation, model, largestMeasured, trainingSize) +
+        curve.gainError * Math.log(trainingSize / largestMeasured);
     }
   } else value = curve.family.model(trainingSize, curve.parameters);
   value += curve.shift + curve.extrapolation * distance;

@@ -222,6 +222,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
           chordWeight: calibration.chordWeight,
           slopeWeight: calibration.slopeWeight,
           headroomWeight: calibration.headroomWeight,
+          gainSpread: calibration.gainSpread,
           smallestSize: smallestMeasured,
           best: best === undefined ? null : sign * best,
         };
@@ -344,6 +345,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
       slopeWeight: continuation.slopeWeight,
       headroomWeight: continuation.headroomWeight,
       spread: calibration.spread,
+      gainSpread: calibration.gainSpread,
       learnedFrom: calibration.learner ?? null,
       smallestSize: continuation.smallestSize,
       best: continuation.best === null ? null : sign * continuation.best + 0,

@@ -84,6 +84,8 @@ export interface StoredCurve {
   shift: number;
   /** The extrapolation error at ln(n / largest measured size) = 1. */
   extrapolation: number;
+  /** The learned gain's error per unit of ln(n / L) (0 without a continuation); absent in earlier files. */
+  gainError?: number;
 }
 
 /** One family's point fit and its weight, in oriented units. */
@@ -150,6 +152,8 @@ export interface ForecastFile {
     slopeWeight: number;
     headroomWeight: number;
     spread: number;
+    /** Standard deviation of the learned gain's error per unit of ln(n / L); absent in earlier files. */
+    gainSpread?: number;
     /**
      * The learner whose corpus curves the numbers were learned from; null: the classification curves
      * of every learner in the corpus (for a learner it did not measure). Absent in earlier files.

@@ -22,8 +22,11 @@
  * curves by weighted least squares (each data set weighing the same), constrained so that the
  * summed forecast gain equals the summed gain measured later (calibration in the large: a least
  * squares fit alone shrinks the gain, because a pilot whose last sizes happened to score high also
- * shows a steep end). `spread` multiplies every family's extrapolation error so that the 80%
- * intervals hold about 80% of the later scores. scripts/forecast-corpus/calibrate.ts learns them and
+ * shows a steep end). Two terms widen the draws so that the 80% intervals hold about 80% of the later
+ * scores: `spread` multiplies every family's extrapolation error, which shrinks as the pilot grows,
+ * and `gainSpread` is the learned gain's own error (a data set's curve goes on rising faster or
+ * slower than the corpus taught), which does not shrink with the pilot: without it, pilots of 400
+ * rows and more got intervals that held the later score far less often than small pilots did. scripts/forecast-corpus/calibrate.ts learns them and
  * compares the variants leave-one-data-set-out; the one shipped keeps the slope at L and the distance
  * left (o = c = 0): the family's own gain and the chord did not lower the error further.
  *
@@ -47,6 +50,11 @@ export interface GainCalibration {
   headroomWeight: number;
   /** Multiplier of every family's extrapolation error τ. */
   spread: number;
+  /**
+   * Standard deviation of the learned gain's own error, per unit of ln(n / L): each draw's
+   * continuation is off by this times one standard normal (see `drawCurves`).
+   */
+  gainSpread: number;
   /** The learner whose corpus curves these were learned from; absent: every classification curve. */
   learner?: string;
 }
@@ -72,6 +80,8 @@ export interface Continuation {
   chordWeight: number;
   slopeWeight: number;
   headroomWeight: number;
+  /** Standard deviation of the learned gain's error per unit of ln(n / L) ({@link GainCalibration}). */
+  gainSpread: number;
   /** n₁: the smallest measured size. */
   smallestSize: number;
   /** The metric's best value in oriented units; null when unknown (the distance term is then left out). */

@@ -42,7 +42,7 @@ export function expectedValue(
       sum +
       f.weight *
         drawnValue(
-          { family: f.family, parameters: f.parameters, shift: 0, extrapolation: 0, continuation },
+          { family: f.family, parameters: f.parameters, shift: 0, extrapolation: 0, continuation, gainError: 0 },
           trainingSize,
           largestMeasured,
         ),
@@ -114,6 +114,7 @@ export function forecastCurves(forecast: ForecastFile): ForecastCurves | undefin
           chordWeight: c.chordWeight,
           slopeWeight: c.slopeWeight,
           headroomWeight: c.headroomWeight,
+          gainSpread: c.gainSpread ?? 0,
           smallestSize: c.smallestSize,
           best: c.best === null ? null : sign * c.best,
         };
@@ -121,6 +122,8 @@ export function forecastCurves(forecast: ForecastFile): ForecastCurves | undefin
     ...curve,
     family: findCurveFamily(curve.family),
     continuation,
+    // A file written before the learned gain had its own error stores none.
+    gainError: curve.gainError ?? 0,
   }));
   const fits: WeightedFit[] = stored.fits.map((fit) => ({ ...fit, family: findCurveFamily(fit.family) }));
   return {

@@ -25,7 +25,7 @@ export function learnedForecastText(forecast: ForecastFile): string | undefined 
   return (
     `Beyond the largest measured size L the forecast does not follow the families' own formulas: each drawn ` +
     `curve, and the expected score, continues from its value at L by ${own}a gain per unit of ln(n / L) of ` +
-    `${gain}; each family's extrapolation error is multiplied by ${c.spread}. These numbers were learned by ` +
+    `${gain}; ${widthText(c.spread, c.gainSpread)}. These numbers were learned by ` +
     `stacked regression from a ` +
     `corpus of learning curves measured by this tool on open data sets (pilots of 50 to 400 rows; the score ` +
     `measured later on the whole data set at 2 to 16 times the pilot), ${learnedFromText(c.learnedFrom)}, ` +
@@ -33,6 +33,19 @@ export function learnedForecastText(forecast: ForecastFile): string | undefined 
     `leave-one-data-set-out: each data set was forecast with numbers learned from the others only; the ` +
     `project's README gives the figures. Far beyond ` +
     `16 times the pilot the corpus gives no check.`
+  );
+}
+
+/** How the draws are widened beyond L: the families' backtest error and the learned gain's own error. */
+function widthText(spread: number, gainSpread: number | undefined): string {
+  const backtest =
+    spread === 0
+      ? "the families' backtest extrapolation errors are left out"
+      : `each family's extrapolation error is multiplied by ${spread}`;
+  if (gainSpread === undefined || gainSpread === 0) return backtest;
+  return (
+    `each drawn curve's gain is off by a normal error with a standard deviation of ${gainSpread} per unit ` +
+    `of ln(n / L) (what the learned gain missed on the corpus), and ${backtest}`
   );
 }
 

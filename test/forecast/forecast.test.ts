@@ -664,6 +664,29 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
     expect(shippedCalibrations.byLearner.forest.slopeWeight).not.toBe(shippedCalibrations.pooled.slopeWeight);
   });
 
+  it("widens the draws beyond L by the learned gain's own error, and only beyond L", () => {
+    const calibration = { ...shippedCalibrations.pooled, gainSpread: 0 };
+    const without = forecastCurve(curve, { draws: 200, calibration, at: [400, 5000] });
+    const withError = forecastCurve(curve, {
+      draws: 200,
+      calibration: { ...calibration, gainSpread: 0.02 },
+      at: [400, 5000],
+    });
+    const sd = (values: readonly number[]): number => {
+      const m = values.reduce((a, b) => a + b, 0) / values.length;
+      return Math.sqrt(values.reduce((a, b) => a + (b - m) ** 2, 0) / (values.length - 1));
+    };
+    // At 400 (below L = 800) the draws are the same; at 5000 they spread further: each draw's gain
+    // is off by 0.02 × a normal per unit of ln(5000 / 800) = 1.83, an extra standard deviation of 0.037.
+    expect(withError.projections[0].draws).toEqual(without.projections[0].draws);
+    const before = sd(without.projections[1].draws);
+    const after = sd(withError.projections[1].draws);
+    expect(after ** 2 - before ** 2).toBeGreaterThan((0.5 * 0.02 * Math.log(5000 / 800)) ** 2);
+    expect(after ** 2 - before ** 2).toBeLessThan((1.5 * 0.02 * Math.log(5000 / 800)) ** 2);
+    // The expected score does not move.
+    expect(withError.projections[1].expected).toBeCloseTo(without.projections[1].expected, 12);
+  });
+
   it("is left out when a family is forced (--family)", () => {
     const forced = forecastCurve(curve, { family: "pow3", draws: 50 });
     expect(forced.continuation).toBeUndefined();
@@ -676,6 +699,7 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
       chordWeight: 0.5,
       slopeWeight: 0.25,
       headroomWeight: 0.1,
+      gainSpread: 0,
       smallestSize: 10,
       best: 1,
     };

@@ -30,11 +30,20 @@ describe("learnedForecastText", () => {
     expect(text).toContain("0.557 × its slope at L");
     expect(text).toContain("0.060 × the distance left");
     expect(text).toContain("multiplied by 1.");
+    expect(text).not.toContain("normal error");
     // Terms with no weight are left out of the sentence.
     expect(text).not.toContain("0.000");
     expect(learnedForecastText(forecastWith({ ...base, chordWeight: 0.25, learnedFrom: null }))).toContain(
       "0.250 × its average rise",
     );
+  });
+
+  it("says how far the learned gain's own error widens the draws", () => {
+    const text = learnedForecastText(
+      forecastWith({ ...base, spread: 0, gainSpread: 0.01, learnedFrom: null }),
+    ) as string;
+    expect(text).toContain("a standard deviation of 0.01 per unit of ln(n / L)");
+    expect(text).toContain("the families' backtest extrapolation errors are left out");
   });
 
   it.each([

@@ -25,10 +25,10 @@
  * shows a steep end). Two terms widen the draws so that the 80% intervals hold about 80% of the later
  * scores: `spread` multiplies every family's extrapolation error, which shrinks as the pilot grows,
  * and `gainSpread` is the learned gain's own error (a data set's curve goes on rising faster or
- * slower than the corpus taught), which does not shrink with the pilot: without it, pilots of 400
- * rows and more got intervals that held the later score far less often than small pilots did. scripts/forecast-corpus/calibrate.ts learns them and
- * compares the variants leave-one-data-set-out; the one shipped keeps the slope at L and the distance
- * left (o = c = 0): the family's own gain and the chord did not lower the error further.
+ * slower than the corpus taught), which does not shrink with the pilot, so that large pilots do not
+ * get intervals too narrow for it. scripts/forecast-corpus/calibrate.ts learns them and compares the
+ * variants leave-one-data-set-out; the one shipped keeps the slope at L and the distance left
+ * (o = c = 0): the family's own gain and the chord did not lower the error further.
  *
  * The weights and the spread are learned once per learner the corpus measured (logistic regression
  * and random forest: their curves differ in shape, the forest's keeping its slope longer, and one

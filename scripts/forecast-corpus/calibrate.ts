@@ -30,16 +30,17 @@ import { assessFamilies } from "../../src/forecast/backtest.js";
 import { drawCurves, drawnValue, type DrawnCurve } from "../../src/forecast/drawCurves.js";
 import { measuredCurve } from "../../src/forecast/measuredCurve.js";
 import { sampleShift } from "../../src/forecast/sampleUncertainty.js";
-import { findCurveFamily, orientedRange } from "../../src/fit/families.js";
+import { findCurveFamily, orientationSign, orientedRange } from "../../src/fit/families.js";
 import { quantileSorted } from "../../src/forecast/quantile.js";
 import {
   calibrationFor,
+  continuationFor,
   continuedGain,
   type CalibrationSet,
   type Continuation,
   type GainCalibration,
 } from "../../src/forecast/gainCorrection.js";
-import { bestScore, findMetric } from "../../src/curve/metrics.js";
+import { scoreLimits } from "../../src/forecast/storedCurves.js";
 import { RandomStream } from "../../src/random.js";
 import { readCorpus } from "./corpus.js";
 import { caseOf, corpusPilots, summarise, summaryTable, type CaseResult, type CorpusPilot } from "./cases.js";
@@ -126,20 +127,12 @@ const gainNormals = new Map(
  */
 const learnable = (p: CorpusPilot): boolean => p.task === "classification";
 
+/** The continuation `forecastCurve` gives the pilot's curve with this calibration. */
 function continuationOf(pilot: CorpusPilot, calibration: GainCalibration | null): Continuation | null {
   if (calibration === null) return null;
-  const metric = findMetric(pilot.curve.metric);
-  const best = metric === undefined ? undefined : bestScore(metric, pilot.curve.metricRange);
-  const sign = metric?.higherIsBetter === false ? -1 : 1;
-  return {
-    ownWeight: calibration.ownWeight,
-    chordWeight: calibration.chordWeight,
-    slopeWeight: calibration.slopeWeight,
-    headroomWeight: calibration.headroomWeight,
-    gainSpread: calibration.gainSpread,
-    smallestSize: pilot.curve.points[0].trainingSize,
-    best: best === undefined ? null : sign * best,
-  };
+  const { best } = scoreLimits(pilot.curve);
+  const oriented = best === undefined ? null : orientationSign(pilot.curve) * best;
+  return continuationFor(calibration, pilot.curve.points[0].trainingSize, oriented);
 }
 
 /** The forecast of one case as forecastCurve makes it: the weighted point fits, the draws' 80% interval. */

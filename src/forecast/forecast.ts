@@ -11,7 +11,13 @@ import { message } from "../messages.js";
 import { assessFamilies, type AssessedFamily } from "./backtest.js";
 import { drawCurves, drawnValue } from "./drawCurves.js";
 import { expectedValue, scoreLimits, storeCurve, storeFit, type WeightedFit } from "./storedCurves.js";
-import { calibrationFor, shippedCalibrations, type Continuation, type GainCalibration } from "./gainCorrection.js";
+import {
+  calibrationFor,
+  continuationFor,
+  shippedCalibrations,
+  type Continuation,
+  type GainCalibration,
+} from "./gainCorrection.js";
 import type { BandPoint, ForecastFile, Projection } from "./forecastFile.js";
 import { forecastWarnings } from "./forecastWarnings.js";
 import { measuredCurve } from "./measuredCurve.js";
@@ -217,15 +223,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const continuation: Continuation | null =
     calibration === null
       ? null
-      : {
-          ownWeight: calibration.ownWeight,
-          chordWeight: calibration.chordWeight,
-          slopeWeight: calibration.slopeWeight,
-          headroomWeight: calibration.headroomWeight,
-          gainSpread: calibration.gainSpread,
-          smallestSize: smallestMeasured,
-          best: best === undefined ? null : sign * best,
-        };
+      : continuationFor(calibration, smallestMeasured, best === undefined ? null : sign * best);
   const fits: WeightedFit[] = families.map((f) => ({
     family: f.family,
     weight: f.weight,

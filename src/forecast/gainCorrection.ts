@@ -88,6 +88,21 @@ export interface Continuation {
   best: number | null;
 }
 
+/** The numbers of a continuation that a calibration (or forecast.json's `continuation`) carries. */
+export type ContinuationWeights = Pick<
+  GainCalibration,
+  "ownWeight" | "chordWeight" | "slopeWeight" | "headroomWeight" | "gainSpread"
+>;
+
+/**
+ * The continuation of one curve: the learned numbers, its smallest measured size n₁ and its metric's
+ * best value in oriented units (null when unknown).
+ */
+export function continuationFor(weights: ContinuationWeights, smallestSize: number, best: number | null): Continuation {
+  const { ownWeight, chordWeight, slopeWeight, headroomWeight, gainSpread } = weights;
+  return { ownWeight, chordWeight, slopeWeight, headroomWeight, gainSpread, smallestSize, best };
+}
+
 /** The calibrations shipped with headroom (learned from the whole corpus). */
 export const shippedCalibrations: CalibrationSet = corpusCalibration;
 

@@ -16,7 +16,7 @@ import { bestScore, findMetric } from "../curve/metrics.js";
 import { findCurveFamily, orientationSign, orientedRange, type CurveFamily } from "../fit/families.js";
 import { drawnValue, type DrawnCurve } from "./drawCurves.js";
 import type { ForecastFile, StoredCurve, StoredFit } from "./forecastFile.js";
-import type { Continuation } from "./gainCorrection.js";
+import { continuationFor, type Continuation } from "./gainCorrection.js";
 
 /** A family's point fit with its weight in the combined forecast, in oriented units. */
 export interface WeightedFit {
@@ -109,15 +109,11 @@ export function forecastCurves(forecast: ForecastFile): ForecastCurves | undefin
   const continuation: Continuation | null =
     c === undefined
       ? null
-      : {
-          ownWeight: c.ownWeight,
-          chordWeight: c.chordWeight,
-          slopeWeight: c.slopeWeight,
-          headroomWeight: c.headroomWeight,
-          gainSpread: c.gainSpread ?? 0,
-          smallestSize: c.smallestSize,
-          best: c.best === null ? null : sign * c.best,
-        };
+      : continuationFor(
+          { ...c, gainSpread: c.gainSpread ?? 0 },
+          c.smallestSize,
+          c.best === null ? null : sign * c.best,
+        );
   const drawn: DrawnCurve[] = stored.drawn.map((curve) => ({
     ...curve,
     family: findCurveFamily(curve.family),

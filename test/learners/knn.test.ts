@@ -68,6 +68,39 @@ describe("nearestNeighbors", () => {
       { numRuns: 300, seed: 20261201 },
     );
   });
+
+  it("gives each query the same neighbors whether searched in a group of four or alone", () => {
+    // Queries go four at a time through one pass over each training row; 1 to 11 queries exercise full
+    // groups and the ones left over, and 1 to 20 columns the blocks of 8 and the columns after them.
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 20 }),
+        fc.integer({ min: 1, max: 11 }),
+        fc.integer({ min: 1, max: 6 }),
+        fc.array(fc.array(fc.integer({ min: -2, max: 2 }), { minLength: 20, maxLength: 20 }), {
+          minLength: 18,
+          maxLength: 40,
+        }),
+        (columns, queryCount, k, table) => {
+          const rows = table.map((row) => row.slice(0, columns));
+          const queries = rows.slice(0, queryCount);
+          const training = rows.slice(queryCount);
+          const kept = Math.min(k, training.length);
+          const found = nearestNeighbors(
+            Float64Array.from(training.flat()),
+            training.length,
+            Float64Array.from(queries.flat()),
+            queries.length,
+            columns,
+            kept,
+          );
+          const expected = queries.flatMap((query) => sortedNeighbors(training, query, kept));
+          expect(Array.from(found)).toEqual(expected);
+        },
+      ),
+      { numRuns: 300, seed: 20261203 },
+    );
+  });
 });
 
 describe("KNearestNeighbors", () => {

@@ -39,6 +39,8 @@ export const message = {
     `${at(file, line, column)}: '${clip(text)}' in column '${columnName}' is not a number`,
   notFinite: (file: string, line: number, column: number, columnName: string, text: string) =>
     `${at(file, line, column)}: '${clip(text)}' in column '${columnName}' is not a finite number; leave the cell empty for a missing value`,
+  tooLarge: (file: string, line: number, column: number, columnName: string, text: string) =>
+    `${at(file, line, column)}: '${clip(text)}' in column '${columnName}' is too large to compute with (above 1e150 in size); rescale the column`,
   noFeatures: (file: string) => `${file}: no feature columns are left besides the label, group and ignored columns`,
   oneClass: (file: string, label: string, className: string) =>
     `${file}: the label column '${label}' has only one class ('${clip(className)}'); a learning curve needs at least two`,

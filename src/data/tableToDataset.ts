@@ -254,15 +254,24 @@ function checkHeader(file: string, header: string[]): void {
 }
 
 /**
+ * The largest magnitude a number may have: the square of a larger one, or a sum of a few hundred such
+ * squares, overflows a double (about 1.8e308), so no mean, variance, distance or squared error could be
+ * computed from it. Without this check a column of such values turned into NaN scales and a model that
+ * predicted one class, with no error.
+ */
+const largestUsable = 1e150;
+
+/**
  * A trimmed cell as a number: NaN when missing, undefined when it is text.
- * @throws DataError for NaN, Infinity and numbers too large for a double.
+ * @throws DataError for NaN, Infinity, numbers too large for a double and numbers above {@link largestUsable}.
  */
 function readNumber(cell: string, file: string, line: number, column: number, columnName: string): number | undefined {
   if (MISSING.has(cell)) return NaN;
   if (DECIMAL.test(cell)) {
     const value = Number(cell);
-    if (Number.isFinite(value)) return value;
-    throw new DataError(message.notFinite(file, line, column, columnName, cell));
+    if (!Number.isFinite(value)) throw new DataError(message.notFinite(file, line, column, columnName, cell));
+    if (Math.abs(value) > largestUsable) throw new DataError(message.tooLarge(file, line, column, columnName, cell));
+    return value;
   }
   if (/^[+-]?(inf|infinity|nan)$/i.test(cell)) {
     throw new DataError(message.notFinite(file, line, column, columnName, cell));

@@ -44,6 +44,7 @@ const files: Record<string, string | Buffer> = {
   "rare-class.csv": twoClasses(20, 0.9),
   "nan.csv": "x,y\n1,a\n2,b\nNaN,a\n",
   "infinity.csv": "x,y\n1,a\n2,b\n3,a\n-Infinity,b\n",
+  "huge.csv": "x,y\n1,a\n2,b\n3e300,a\n",
   "tiny.csv": twoClasses(12),
   "bad-curve.json": '{\n  "kind": "headroom-curve",\n  "version": 1,,\n  "points": []\n}\n',
   "cut-curve.json": '{\n  "kind": "headroom-curve",\n  "points": [\n',
@@ -203,6 +204,12 @@ const cases: BadCase[] = [
     argv: measure("infinity.csv"),
     exitCode: ExitCode.data,
     line: `${path("infinity.csv")}:5:1: '-Infinity' in column 'x' is not a finite number; leave the cell empty for a missing value`,
+  },
+  {
+    name: "a feature too large to compute with",
+    argv: measure("huge.csv"),
+    exitCode: ExitCode.data,
+    line: `${path("huge.csv")}:4:1: '3e300' in column 'x' is too large to compute with (above 1e150 in size); rescale the column`,
   },
   {
     // 12 rows, 5 folds: pools of 9 rows, below the smallest sensible size of 10, so no 3 sizes fit.

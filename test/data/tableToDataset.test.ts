@@ -50,6 +50,12 @@ describe("tableToDataset", () => {
       "d.csv:4:1: 'abc' in column 'x' is not a number, though most of the column is numbers",
     ],
     ["NaN in a text column", "s,c\nA,a\nB,a\nNaN,b\n", "d.csv:4:1: 'NaN' in column 's' is not a finite number"],
+    [
+      // 1e200 is a finite double, but its square is not: means, variances and distances would overflow.
+      "a number whose square overflows",
+      "x,c\n1,a\n-1e200,b\n",
+      "d.csv:3:1: '-1e200' in column 'x' is too large to compute with (above 1e150 in size); rescale the column",
+    ],
   ])("rejects %s", (_, text, expected) => {
     expect(() => tableToDataset(csv(text), { label: "c" })).toThrow(expected);
   });

@@ -115,6 +115,15 @@ export function fitPreprocessor(
     for (let j = 0; j < width; j++) if (numeric(j)) imputedValues[j] = NaN;
     return new FittedPreprocessor(columns, width, encoder, imputedValues, means, scales);
   }
+  // Standardizing numeric columns none of which needs a median: the sums run along the rows as they lie,
+  // each column's in the same order as below, so the means and scales are the same to the last bit.
+  let medianNeeded = false;
+  for (let j = 0; j < width && !medianNeeded; j++) medianNeeded = !isComplete(j);
+  if (standardize && !encoder && !medianNeeded && allFinite(values)) {
+    for (let j = 0; j < width; j++) imputedValues[j] = NaN;
+    fitScalesByRow(values, rows, width, means, scales);
+    return new FittedPreprocessor(columns, width, encoder, imputedValues, means, scales);
+  }
   const present = scratchRowDoubles("preprocess.present", rows);
   // On wide rows a walk down one column touches a new cache line at every value; a column-major copy
   // (one pass) makes each column's passes contiguous. Same values, same order of sums.
@@ -237,11 +246,64 @@ function fitScale(
     residualSum += d;
   }
   const variance = Math.max(0, (squares - (residualSum * residualSum) / rows) / rows);
-  // StandardScaler's constant-feature test (sklearn.preprocessing._data._is_constant_feature).
+  means[j] = mean;
+  scales[j] = scaleOf(variance, rows, mean);
+}
+
+/**
+ * Means and scales of every column of the row-major `rows × width` block (all finite), as
+ * {@link fitScale} gives them column by column: here each pass reads the rows in order and adds into one
+ * running sum per column, without the column-major copy (on wide data the copy cost as much as the sums).
+ */
+function fitScalesByRow(
+  values: Float64Array,
+  rows: number,
+  width: number,
+  means: Float64Array,
+  scales: Float64Array,
+): void {
+  const sums = scratchRowDoubles("preprocess.sums", width).fill(0);
+  const residuals = scratchRowDoubles("preprocess.residuals", width).fill(0);
+  for (let i = 0; i < rows; i++) addRow(values, i * width, width, sums);
+  for (let j = 0; j < width; j++) means[j] = sums[j] / rows;
+  const squares = sums.fill(0);
+  for (let i = 0; i < rows; i++) addDeviations(values, i * width, width, means, squares, residuals);
+  for (let j = 0; j < width; j++) {
+    const variance = Math.max(0, (squares[j] - (residuals[j] * residuals[j]) / rows) / rows);
+    scales[j] = scaleOf(variance, rows, means[j]);
+  }
+}
+
+/** Adds the row at `offset` into `sums`, column by column. */
+function addRow(values: Float64Array, offset: number, width: number, sums: Float64Array): void {
+  for (let j = 0; j < width; j++) sums[j] += values[offset + j];
+}
+
+/** Adds the row's squared deviations from `means` into `squares` and its deviations into `residuals`. */
+function addDeviations(
+  values: Float64Array,
+  offset: number,
+  width: number,
+  means: Float64Array,
+  squares: Float64Array,
+  residuals: Float64Array,
+): void {
+  for (let j = 0; j < width; j++) {
+    const d = values[offset + j] - means[j];
+    squares[j] += d * d;
+    residuals[j] += d;
+  }
+}
+
+/**
+ * A column's scale from its population variance: the standard deviation, or 1 for a constant column by
+ * StandardScaler's test (sklearn.preprocessing._data._is_constant_feature: a variance within the
+ * round-off bound of Chan, Golub and LeVeque's two-pass algorithm).
+ */
+function scaleOf(variance: number, rows: number, mean: number): number {
   const eps = Number.EPSILON;
   const bound = rows * eps * variance + (rows * mean * eps) ** 2;
-  means[j] = mean;
-  scales[j] = variance <= bound ? 1 : Math.sqrt(variance);
+  return variance <= bound ? 1 : Math.sqrt(variance);
 }
 
 class FittedPreprocessor implements Preprocessor {

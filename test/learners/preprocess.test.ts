@@ -178,6 +178,24 @@ describe("fitPreprocessor with complete columns", () => {
     }
   });
 
+  it("gives the same means and scales to the last bit when every column is complete (row-major sums)", () => {
+    // With no median needed anywhere, the sums run along the rows; they must equal the column-by-column
+    // sums of the general path, narrow and wide, including a constant column (scale 1).
+    for (const [rows, columns] of [
+      [9, 3],
+      [7, 130],
+      [40, 70],
+    ]) {
+      const x = values(rows, columns);
+      for (let i = 0; i < rows; i++) x[i * columns + 2] = 1.1; // constant
+      const plain = fitPreprocessor(x, rows, columns);
+      const allComplete = fitPreprocessor(x, rows, columns, { completeColumns: new Uint8Array(columns).fill(1) });
+      expect(Array.from(allComplete.means)).toEqual(Array.from(plain.means));
+      expect(Array.from(allComplete.scales)).toEqual(Array.from(plain.scales));
+      expect(allComplete.scales[2]).toBe(1);
+    }
+  });
+
   it("rejects a missing value in a column said to be complete, naming row and column, and still reports ±Infinity", () => {
     const complete = Uint8Array.of(1, 1);
     const training = matrix([

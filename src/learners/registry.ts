@@ -12,6 +12,7 @@ import { LogisticRegression } from "./logistic.js";
 import { GaussianNaiveBayes } from "./naiveBayes.js";
 import { RidgeRegression } from "./ridge.js";
 import { releaseScratch } from "./scratch.js";
+import { releaseGramMemory } from "../numerics/gramKernel.js";
 import { releaseSoftmaxMemory } from "./softmaxKernel.js";
 import { LinearSvm } from "./svm.js";
 
@@ -68,7 +69,7 @@ export function createRegressionLearner(name: string): RegressionLearner | undef
  * released by {@link releaseLearnerMemory}. A learner with such memory adds its release here, so that
  * the curve loop knows no learner's internals.
  */
-const releases: (() => void)[] = [releaseScratch, releaseSoftmaxMemory];
+const releases: (() => void)[] = [releaseScratch, releaseSoftmaxMemory, releaseGramMemory];
 
 /** Gives back the memory the learners keep on this thread between fits; they reallocate it when next fitting. */
 export function releaseLearnerMemory(): void {

@@ -9,6 +9,7 @@
  * calls per element, and its Cholesky wants an exactly symmetric matrix. (The curve fitter's small
  * systems would not need the speed; they share this code so that there is one factorization.)
  */
+import { gramSimd } from "./gramKernel.js";
 
 /**
  * Overwrites the lower triangle of the symmetric `n × n` matrix `a` with the Cholesky factor L of
@@ -148,9 +149,10 @@ export function linearScores(
 
 /**
  * The Gram matrix X Xᵀ of the `n × p` row-major block `x`, into `out` (`n × n`, row-major, both
- * triangles): the inner products of every pair of rows. Blocks of four rows against two, so that
- * each value read serves several products (the benchmark's wide sets spend most of a logistic fit
- * here).
+ * triangles): the inner products of every pair of rows, each summed as even columns plus odd columns
+ * (see gramKernel.ts, a WebAssembly SIMD kernel: the benchmark's wide sets spend most of a logistic
+ * fit here).
+ * @throws FitError when the block does not fit in a WebAssembly memory (4 GiB).
  */
 export function gramMatrix(
   x: Float64Array,
@@ -158,73 +160,7 @@ export function gramMatrix(
   p: number,
   out: Float64Array = new Float64Array(n * n),
 ): Float64Array {
-  let i = 0;
-  for (; i + 3 < n; i += 4) {
-    let k = 0;
-    for (; k + 1 <= i + 3; k += 2) gramFourByTwo(x, p, i, k, n, out);
-    if (k <= i + 3) for (let r = 0; r < 4; r++) out[(i + r) * n + k] = rowDot(x, p, i + r, k);
-  }
-  for (; i < n; i++) for (let k = 0; k <= i; k++) out[i * n + k] = rowDot(x, p, i, k);
-  // Mirror the lower triangle (the blocks also wrote a few entries above the diagonal, overwritten here).
-  for (let r = 0; r < n; r++) for (let c = r + 1; c < n; c++) out[r * n + c] = out[c * n + r];
-  return out;
-}
-
-/** The inner products of rows i .. i + 3 with rows k and k + 1, into rows i .. i + 3 of `out`. */
-function gramFourByTwo(x: Float64Array, p: number, i: number, k: number, n: number, out: Float64Array): void {
-  const a0 = i * p;
-  const a1 = a0 + p;
-  const a2 = a1 + p;
-  const a3 = a2 + p;
-  const c = k * p;
-  const d = c + p;
-  let s0 = 0;
-  let s1 = 0;
-  let s2 = 0;
-  let s3 = 0;
-  let t0 = 0;
-  let t1 = 0;
-  let t2 = 0;
-  let t3 = 0;
-  for (let j = 0; j < p; j++) {
-    const v = x[c + j];
-    const w = x[d + j];
-    const x0 = x[a0 + j];
-    const x1 = x[a1 + j];
-    const x2 = x[a2 + j];
-    const x3 = x[a3 + j];
-    s0 += x0 * v;
-    s1 += x1 * v;
-    s2 += x2 * v;
-    s3 += x3 * v;
-    t0 += x0 * w;
-    t1 += x1 * w;
-    t2 += x2 * w;
-    t3 += x3 * w;
-  }
-  const r0 = i * n + k;
-  out[r0] = s0;
-  out[r0 + n] = s1;
-  out[r0 + 2 * n] = s2;
-  out[r0 + 3 * n] = s3;
-  out[r0 + 1] = t0;
-  out[r0 + n + 1] = t1;
-  out[r0 + 2 * n + 1] = t2;
-  out[r0 + 3 * n + 1] = t3;
-}
-
-function rowDot(x: Float64Array, p: number, i: number, k: number): number {
-  const a = i * p;
-  const b = k * p;
-  let s0 = 0;
-  let s1 = 0;
-  let j = 0;
-  for (; j + 1 < p; j += 2) {
-    s0 += x[a + j] * x[b + j];
-    s1 += x[a + j + 1] * x[b + j + 1];
-  }
-  if (j < p) s0 += x[a + j] * x[b + j];
-  return s0 + s1;
+  return gramSimd(x, n, p, out);
 }
 
 /** A factor of a symmetric positive-semidefinite matrix K = F Fᵀ from {@link pivotedCholesky}. */

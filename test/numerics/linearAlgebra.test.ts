@@ -3,9 +3,12 @@ import fc from "fast-check";
 import {
   choleskyInPlace,
   choleskySolveInPlace,
+  gramMatrix,
   minimumNormSolve,
   symmetricEigen,
 } from "../../src/numerics/linearAlgebra.js";
+import { releaseGramMemory } from "../../src/numerics/gramKernel.js";
+import { RandomStream } from "../../src/random.js";
 
 /** A·B for row-major square matrices. */
 function multiply(a: Float64Array, b: Float64Array, n: number): Float64Array {
@@ -102,5 +105,50 @@ describe("symmetricEigen and minimumNormSolve", () => {
     expect(x[1]).toBeCloseTo(1, 12);
     // The zero matrix: the least-squares solution of minimum norm is 0.
     expect(Array.from(minimumNormSolve(new Float64Array(4), 2, Float64Array.of(1, 2)))).toEqual([0, 0]);
+  });
+});
+
+describe("gramMatrix (WebAssembly SIMD kernel)", () => {
+  /** X Xᵀ summed as the kernel documents: even columns in order, plus odd columns in order. */
+  function evenPlusOdd(x: Float64Array, n: number, p: number): Float64Array {
+    const out = new Float64Array(n * n);
+    for (let i = 0; i < n; i++) {
+      for (let k = 0; k < n; k++) {
+        let even = 0;
+        let odd = 0;
+        for (let j = 0; j < p; j += 2) even += x[i * p + j] * x[k * p + j];
+        for (let j = 1; j < p; j += 2) odd += x[i * p + j] * x[k * p + j];
+        out[i * n + k] = even + odd;
+      }
+    }
+    return out;
+  }
+
+  it("gives every product to the last bit, whatever the padding of rows and columns", () => {
+    // Sizes with every remainder of rows mod 4 and of columns mod 2, the larger blocks first, so that
+    // the smaller ones reuse memory holding the larger ones' values (the padding must be zeroed again).
+    const random = new RandomStream(20261203);
+    for (const [n, p] of [
+      [37, 301],
+      [12, 64],
+      [1, 1],
+      [2, 3],
+      [3, 2],
+      [5, 7],
+      [6, 1],
+      [7, 10],
+    ]) {
+      const x = Float64Array.from({ length: n * p }, () => random.normal() * 10);
+      const found = gramMatrix(x, n, p);
+      expect(Array.from(found)).toEqual(Array.from(evenPlusOdd(x, n, p)));
+    }
+  });
+
+  it("is exact on integers and works again after its memory is released", () => {
+    // Small integers: every product and sum is exact, so the matrix is the textbook X Xᵀ.
+    const x = Float64Array.of(1, 2, 3, 4, 5, 6); // rows (1, 2, 3) and (4, 5, 6)
+    expect(Array.from(gramMatrix(x, 2, 3))).toEqual([14, 32, 32, 77]);
+    releaseGramMemory();
+    expect(Array.from(gramMatrix(x, 2, 3))).toEqual([14, 32, 32, 77]);
   });
 });

@@ -106,7 +106,10 @@ export async function runStudy(studyFile: string, options: StudyRunOptions): Pro
   } catch (error) {
     throw inStudyTerms(error, studyFile, "forecast");
   }
-  const decision = weighRuns(forecast, study.plan, "forecast", { domain: study.context.domain });
+  const decision = weighRuns(forecast, study.plan, "forecast", {
+    domain: study.context.domain,
+    planKey: (key) => `${studyFile}: plan.${key}`,
+  });
   const report = await reportFiles({
     curve,
     forecast,

@@ -50,6 +50,12 @@ export interface WeighOptions {
    * @default 4000
    */
   simulations?: number;
+  /**
+   * How messages name a key of the plan: `plan.json: target` for a plan file, `study.json: plan.target`
+   * for a study's plan.
+   * @default (key) => `plan ${key}`
+   */
+  planKey?: (key: string) => string;
 }
 
 /** Samples behind today's model when the plan does not say: the curve's rows, else its largest size. */
@@ -114,6 +120,13 @@ export function weighRuns(
   const missing = grid.readsAnySize ? [] : required.filter((size) => !projected.has(size));
   if (missing.length > 0) throw new DataError(message.missingProjections(forecastFileName, missing, required));
 
+  const metricRange = forecast.metricRange ?? findMetric(forecast.metric)?.range;
+  const target = plan.target;
+  if (target !== undefined && metricRange !== undefined && !(target >= metricRange[0] && target <= metricRange[1])) {
+    const key = options.planKey ?? ((name: string) => `plan ${name}`);
+    throw new DataError(`${key("target")}: ${message.targetOutsideRange(target, forecast.metric, metricRange)}`);
+  }
+
   // Orientation: +1 when a higher score is better, so that `sign * difference` is always a gain.
   const sign = forecast.higherIsBetter ? 1 : -1;
   const clinical = plan.clinical === undefined ? undefined : clinicalSampleSize(plan.clinical);
@@ -122,7 +135,7 @@ export function weighRuns(
     today,
     sign,
     level: forecast.level,
-    metricRange: forecast.metricRange ?? findMetric(forecast.metric)?.range,
+    metricRange,
     seed: forecast.seed,
     clinicalMinimum: clinical?.participants,
   };

@@ -53,6 +53,7 @@ const files: Record<string, string | Buffer> = {
   "bad-plan.json": '{\n  "samplesPerRun": 30\n  "costPerRun": 500\n}\n',
   "negative-cost-plan.json": JSON.stringify({ ...goodPlan, costPerRun: -1 }),
   "zero-yield-plan.json": JSON.stringify({ ...goodPlan, samplesPerRun: 0 }),
+  "percent-target-plan.json": JSON.stringify({ ...goodPlan, target: 86 }),
   "no-yield-plan.json": JSON.stringify({ costPerRun: 500, maxRuns: 2, valuePerPoint: 100 }),
   "bad-study.json": '{ "data": "iris.csv", "label": "class" "plan": {} }',
   "missing-data-study.json": JSON.stringify({ data: "gone.csv", label: "class", plan: goodPlan }),
@@ -329,6 +330,13 @@ const cases: BadCase[] = [
     argv: ["weigh", path("forecast.json"), "--plan", path("no-yield-plan.json"), "--out", out],
     exitCode: ExitCode.data,
     line: `${path("no-yield-plan.json")}: samplesPerRun: missing: give samplesPerRun, or samplesPerRunRange [fewest, most] when the yield is uncertain`,
+  },
+  {
+    // The curve's metric is accuracy, a share between 0 and 1: 86 is a percentage.
+    name: "a target outside the metric's range",
+    argv: ["weigh", path("forecast.json"), "--plan", path("percent-target-plan.json"), "--out", out],
+    exitCode: ExitCode.data,
+    line: `${path("percent-target-plan.json")}: target: 86 is outside the accuracy range [0, 1] (give accuracy as a fraction, e.g. 0.9)`,
   },
   // Study files.
   {

@@ -24,6 +24,7 @@ export function weighCommand(io: CliIo): Command {
       const plan = readPlan(options.plan as string);
       const decision = weighRuns(forecast, plan, forecastFile, {
         domain: typeof options.domain === "string" ? options.domain : undefined,
+        planKey: (key) => `${options.plan as string}: ${key}`,
       });
       const json = toJson(decision);
       if (typeof options.out === "string") writeFileAtomic(options.out, json, [forecastFile, options.plan as string]);

@@ -33,6 +33,10 @@ export const message = {
     (file: string, option: string, name: string, available: string[]): ErrorText =>
     (n: OptionNamer) =>
       `${file}: ${n(option)} column '${name}' is not in the header (columns: ${preview(available)})`,
+  columnTwice:
+    (file: string, option: string, name: string, other: string): ErrorText =>
+    (n: OptionNamer) =>
+      `${file}: ${n(option)} column '${clip(name)}' is already the ${n(other)} column; each column has one role`,
   labelMissing: (file: string, line: number, column: number, name: string) =>
     `${at(file, line, column)}: the label '${name}' is empty`,
   notANumber: (file: string, line: number, column: number, columnName: string, text: string) =>

@@ -92,7 +92,18 @@ export class DatasetBuilder {
     };
     this.labelColumn = indexOf("label", choice.label);
     this.groupColumn = choice.group === undefined ? -1 : indexOf("group", choice.group);
+    if (this.groupColumn === this.labelColumn) {
+      throw new UsageError(message.columnTwice(file, "group", choice.label, "label"));
+    }
     const ignored = new Set((choice.ignore ?? []).map((name) => indexOf("ignore", name)));
+    for (const [column, option] of [
+      [this.labelColumn, "label"],
+      [this.groupColumn, "group"],
+    ] as const) {
+      if (ignored.has(column)) {
+        throw new UsageError(message.columnTwice(file, "ignore", header[column], option));
+      }
+    }
     this.featureColumns = header
       .map((_, i) => i)
       .filter((i) => i !== this.labelColumn && i !== this.groupColumn && !ignored.has(i));

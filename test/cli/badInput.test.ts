@@ -183,6 +183,18 @@ const cases: BadCase[] = [
     line: `${path("iris.csv")}: --label column 'species' is not in the header (columns: 'sepal_length_(cm)', 'sepal_width_(cm)', 'petal_length_(cm)', 'petal_width_(cm)', 'class')`,
   },
   {
+    name: "the label column given as the run column",
+    argv: ["measure", path("iris.csv"), "--label", "class", "--group", "class", "--out", out],
+    exitCode: ExitCode.usage,
+    line: `${path("iris.csv")}: --group column 'class' is already the --label column; each column has one role`,
+  },
+  {
+    name: "the label column ignored",
+    argv: ["measure", path("iris.csv"), "--label", "class", "--ignore", "class", "--out", out],
+    exitCode: ExitCode.usage,
+    line: `${path("iris.csv")}: --ignore column 'class' is already the --label column; each column has one role`,
+  },
+  {
     name: "one class only",
     argv: measure("one-class.csv"),
     exitCode: ExitCode.data,

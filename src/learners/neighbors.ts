@@ -5,13 +5,16 @@
  * in a sorted list; a training row enters only when strictly nearer than the current k-th, so among
  * rows at the same distance the earlier training row wins, as in scikit-learn's neighbor heaps. A
  * row's distance sum stops as soon as it exceeds the current k-th distance (the sum of squares only
- * grows, so this never changes the result). Queries are searched four at a time (see `group`); each
- * query's distances are summed column by column in order, whether it is searched in a group or alone.
+ * grows, so this never changes the result). Queries are searched four at a time (see `group`), and
+ * on rows of 64 columns or more eight at a time by a WebAssembly kernel (distanceKernel.ts); each
+ * query's distances are summed column by column in order on every path, so the neighbors are the same.
  *
  * Written by hand because the npm package ml-knn takes seconds on 2000 × 60 rows × columns when tried;
  * brute force over raw Float64Arrays needs no index structure, which at the sizes a
  * learning curve fits (hundreds to tens of thousands of rows) would cost more to build than it saves.
  */
+
+import { DistanceTable, queriesPerGroup } from "./distanceKernel.js";
 
 /**
  * The k nearest training rows of each query row.
@@ -29,6 +32,10 @@ export function nearestNeighbors(
   k: number,
 ): Int32Array {
   const out = new Int32Array(queryRows * k);
+  if (columns >= kernelColumns && trainingRows > 0) {
+    searchWithKernel(training, trainingRows, queries, queryRows, columns, k, out);
+    return out;
+  }
   const held = new Int32Array(group);
   const worst = new Float64Array(group); // each query's k-th smallest distance so far (Infinity until k are held)
   const distances = new Float64Array(group * k);
@@ -75,6 +82,52 @@ export function nearestNeighbors(
     for (let g = 0; g < size; g++) out.set(indices.subarray(g * k, g * k + k), (first + g) * k);
   }
   return out;
+}
+
+/**
+ * Columns from which the distances are computed by the WebAssembly kernel (distanceKernel.ts), which
+ * gives the same sums; on fewer, copying the rows into its memory costs more than it saves, and the
+ * plain search's early stop saves more.
+ */
+const kernelColumns = 64;
+
+/** {@link nearestNeighbors} with the distances from the WebAssembly kernel, eight queries at a time. */
+function searchWithKernel(
+  training: Float64Array,
+  trainingRows: number,
+  queries: Float64Array,
+  queryRows: number,
+  columns: number,
+  k: number,
+  out: Int32Array,
+): void {
+  const table = new DistanceTable(training, trainingRows, columns);
+  const distances = new Float64Array(k);
+  const indices = new Int32Array(k);
+  for (let first = 0; first < queryRows; first += queriesPerGroup) {
+    const count = Math.min(queriesPerGroup, queryRows - first);
+    const found = table.distances(queries, first, count);
+    for (let g = 0; g < count; g++) {
+      let held = 0;
+      let worst = Infinity;
+      for (let t = 0; t < trainingRows; t++) {
+        const d = found[t * queriesPerGroup + g];
+        if (d >= worst) continue;
+        // Insert after every held distance ≤ d, so equal distances keep training order.
+        let position = held < k ? held : k - 1;
+        while (position > 0 && distances[position - 1] > d) {
+          distances[position] = distances[position - 1];
+          indices[position] = indices[position - 1];
+          position--;
+        }
+        distances[position] = d;
+        indices[position] = t;
+        if (held < k) held++;
+        if (held === k) worst = distances[k - 1];
+      }
+      out.set(indices.subarray(0, k), (first + g) * k);
+    }
+  }
 }
 
 /**

@@ -13,6 +13,7 @@ import { GaussianNaiveBayes } from "./naiveBayes.js";
 import { RidgeRegression } from "./ridge.js";
 import { releaseScratch } from "./scratch.js";
 import { releaseGramMemory } from "../numerics/gramKernel.js";
+import { releaseDistanceMemory } from "./distanceKernel.js";
 import { releaseSoftmaxMemory } from "./softmaxKernel.js";
 import { LinearSvm } from "./svm.js";
 
@@ -69,7 +70,7 @@ export function createRegressionLearner(name: string): RegressionLearner | undef
  * released by {@link releaseLearnerMemory}. A learner with such memory adds its release here, so that
  * the curve loop knows no learner's internals.
  */
-const releases: (() => void)[] = [releaseScratch, releaseSoftmaxMemory, releaseGramMemory];
+const releases: (() => void)[] = [releaseScratch, releaseSoftmaxMemory, releaseGramMemory, releaseDistanceMemory];
 
 /** Gives back the memory the learners keep on this thread between fits; they reallocate it when next fitting. */
 export function releaseLearnerMemory(): void {

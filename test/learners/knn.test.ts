@@ -103,6 +103,56 @@ describe("nearestNeighbors", () => {
   });
 });
 
+describe("nearestNeighbors on wide rows (the WebAssembly distance kernel)", () => {
+  it("agrees with a stable sort of all distances, ties included, for any number of queries", () => {
+    // From 64 columns the distances come from distanceKernel.ts, eight queries at a time; 1 to 19
+    // queries exercise full groups and the padded last one. Small integers make many exact ties.
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 64, max: 80 }),
+        fc.integer({ min: 1, max: 19 }),
+        fc.integer({ min: 1, max: 6 }),
+        fc.integer({ min: 1, max: 25 }),
+        fc.integer({ min: 0, max: 2 ** 31 - 1 }),
+        (columns, queryCount, k, trainingCount, seed) => {
+          const random = new RandomStream(seed);
+          const row = () => Array.from({ length: columns }, () => Math.floor(random.uniform() * 3) - 1);
+          const training = Array.from({ length: trainingCount }, row);
+          const queries = Array.from({ length: queryCount }, row);
+          training.push(training[0].slice()); // an exact duplicate: the earlier row must win
+          const kept = Math.min(k, training.length);
+          const found = nearestNeighbors(
+            Float64Array.from(training.flat()),
+            training.length,
+            Float64Array.from(queries.flat()),
+            queries.length,
+            columns,
+            kept,
+          );
+          expect(Array.from(found)).toEqual(queries.flatMap((query) => sortedNeighbors(training, query, kept)));
+        },
+      ),
+      { numRuns: 150, seed: 20261203 },
+    );
+  });
+
+  it("gives the same neighbors as the plain search on non-integer rows", () => {
+    // Standard normal values: the kernel's sums must be the column-by-column sums to the last bit, or
+    // near ties would order differently; the stable sort's reference sums run in that order.
+    const random = new RandomStream(7);
+    const columns = 300;
+    const trainingRows = 150;
+    const queryRows = 21;
+    const training = Float64Array.from({ length: trainingRows * columns }, () => random.normal());
+    const queries = Float64Array.from({ length: queryRows * columns }, () => random.normal());
+    const rows = (x: Float64Array, n: number) =>
+      Array.from({ length: n }, (_, i) => Array.from(x.subarray(i * columns, (i + 1) * columns)));
+    const found = nearestNeighbors(training, trainingRows, queries, queryRows, columns, 7);
+    const expected = rows(queries, queryRows).flatMap((q) => sortedNeighbors(rows(training, trainingRows), q, 7));
+    expect(Array.from(found)).toEqual(expected);
+  });
+});
+
 describe("KNearestNeighbors", () => {
   it("votes by class fractions and lets the lower class win a tied vote", () => {
     // 1-D training values 0, 1 (class 1) and 10, 11 (class 0); at x = 5.5 with k = 2 the nearest are

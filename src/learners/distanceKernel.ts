@@ -21,17 +21,18 @@
 import { FitError } from "../errors.js";
 import { message } from "../messages.js";
 import {
+  compileKernel,
   forLoop,
   i32,
-  name,
+  memoryImport,
+  moduleBytes,
   op,
-  pageBytes,
-  section,
+  reserveBytes,
   unsignedLeb,
   v128,
   vector,
-  WebAssembly,
   type Bytes,
+  type CompiledKernel,
 } from "../numerics/wasm.js";
 
 /** Query rows per call of the module. */
@@ -39,18 +40,10 @@ export const queriesPerGroup = 8;
 
 type Kernel = (training: number, trainingRows: number, columns: number, queries: number, out: number) => void;
 
-interface Instance {
-  kernel: Kernel;
-  memory: { buffer: ArrayBuffer; grow(pages: number): number };
-}
-let instance: Instance | undefined;
+let instance: CompiledKernel<Kernel> | undefined;
 
-function getInstance(): Instance {
-  if (instance) return instance;
-  const memory = new WebAssembly.Memory({ initial: 1 });
-  const module = new WebAssembly.Module(kernelBytes());
-  const exports = new WebAssembly.Instance(module, { env: { memory } }).exports;
-  instance = { kernel: exports.distances as Kernel, memory };
+function getInstance(): CompiledKernel<Kernel> {
+  instance ??= compileKernel<Kernel>(kernelBytes(), "distances");
   return instance;
 }
 
@@ -64,7 +57,7 @@ export function releaseDistanceMemory(): void {
  * measured. Valid until another DistanceTable is made on the same thread.
  */
 export class DistanceTable {
-  private readonly shared: Instance;
+  private readonly shared: CompiledKernel<Kernel>;
   private readonly queriesAt: number;
   private readonly outAt: number;
 
@@ -80,10 +73,9 @@ export class DistanceTable {
     this.shared = getInstance();
     this.queriesAt = trainingRows * columns * 8;
     this.outAt = this.queriesAt + queriesPerGroup * columns * 8;
-    const end = this.outAt + trainingRows * queriesPerGroup * 8;
-    if (end > 65536 * pageBytes) throw new FitError(message.tooLargeForKernel(trainingRows, columns));
-    const needed = Math.ceil(end / pageBytes) - this.shared.memory.buffer.byteLength / pageBytes;
-    if (needed > 0) this.shared.memory.grow(needed);
+    if (!reserveBytes(this.shared.memory, this.outAt + trainingRows * queriesPerGroup * 8)) {
+      throw new FitError(message.tooLargeForKernel(trainingRows, columns));
+    }
     new Float64Array(this.shared.memory.buffer).set(training.subarray(0, trainingRows * columns), 0);
   }
 
@@ -164,18 +156,10 @@ function kernelBytes(): Uint8Array {
     ]),
   ];
   const distancesType = [0x60, ...vector(Array.from({ length: 5 }, () => [i32])), ...vector([])];
-  const imports = [[...name("env"), ...name("memory"), 0x02, 0x00, 0x01]];
   const locals = vector([
     [...unsignedLeb(4), i32],
     [...unsignedLeb(6), v128],
   ]);
   const code = [...locals, ...body.flat(), ...op.end];
-  return new Uint8Array([
-    ...[0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00],
-    ...section(1, vector([distancesType])),
-    ...section(2, vector(imports)),
-    ...section(3, vector([[0]])),
-    ...section(7, vector([[...name("distances"), 0x00, 0]])),
-    ...section(10, vector([[...unsignedLeb(code.length), ...code]])),
-  ]);
+  return moduleBytes([distancesType], [memoryImport], 0, "distances", code);
 }

@@ -65,23 +65,39 @@ export function nearestNeighbors(
       for (let g = 0; g < size; g++) {
         const d = found[g];
         if (d >= worst[g]) continue;
-        // Insert after every held distance ≤ d, so equal distances keep training order.
-        const base = g * k;
-        let position = held[g] < k ? held[g] : k - 1;
-        while (position > 0 && distances[base + position - 1] > d) {
-          distances[base + position] = distances[base + position - 1];
-          indices[base + position] = indices[base + position - 1];
-          position--;
-        }
-        distances[base + position] = d;
-        indices[base + position] = t;
-        if (held[g] < k) held[g]++;
-        if (held[g] === k) worst[g] = distances[base + k - 1];
+        held[g] = insertNearest(distances, indices, g * k, held[g], k, d, t);
+        if (held[g] === k) worst[g] = distances[g * k + k - 1];
       }
     }
     for (let g = 0; g < size; g++) out.set(indices.subarray(g * k, g * k + k), (first + g) * k);
   }
   return out;
+}
+
+/**
+ * Puts training row `t` at distance `d` into one query's sorted list of the nearest so far (the `k`
+ * entries from `base`, `held` of them filled), after every held distance ≤ d so that equal distances
+ * keep training order; the farthest drops out when the list is full. `d` must be below the k-th
+ * distance when the list is full. Returns the new number held.
+ */
+function insertNearest(
+  distances: Float64Array,
+  indices: Int32Array,
+  base: number,
+  held: number,
+  k: number,
+  d: number,
+  t: number,
+): number {
+  let position = held < k ? held : k - 1;
+  while (position > 0 && distances[base + position - 1] > d) {
+    distances[base + position] = distances[base + position - 1];
+    indices[base + position] = indices[base + position - 1];
+    position--;
+  }
+  distances[base + position] = d;
+  indices[base + position] = t;
+  return held < k ? held + 1 : k;
 }
 
 /**
@@ -113,16 +129,7 @@ function searchWithKernel(
       for (let t = 0; t < trainingRows; t++) {
         const d = found[t * queriesPerGroup + g];
         if (d >= worst) continue;
-        // Insert after every held distance ≤ d, so equal distances keep training order.
-        let position = held < k ? held : k - 1;
-        while (position > 0 && distances[position - 1] > d) {
-          distances[position] = distances[position - 1];
-          indices[position] = indices[position - 1];
-          position--;
-        }
-        distances[position] = d;
-        indices[position] = t;
-        if (held < k) held++;
+        held = insertNearest(distances, indices, 0, held, k, d, t);
         if (held === k) worst = distances[k - 1];
       }
       out.set(indices.subarray(0, k), (first + g) * k);

@@ -33,19 +33,21 @@
 import { FitError } from "../errors.js";
 import { message } from "../messages.js";
 import {
+  compileKernel,
   f64,
   forLoop,
   i32,
+  memoryImport,
+  moduleBytes,
   name,
   op,
-  pageBytes,
-  section,
+  reserveBytes,
   splat,
   unsignedLeb,
   v128,
   vector,
-  WebAssembly,
   type Bytes,
+  type CompiledKernel,
 } from "../numerics/wasm.js";
 
 /** Rows per block of the interleaved layout. */
@@ -65,19 +67,13 @@ type Kernel = (
 ) => number;
 
 /** The module's instance and memory, one per thread, with the kernel whose data the memory holds. */
-interface Instance {
-  kernel: Kernel;
-  memory: { buffer: ArrayBuffer; grow(pages: number): number };
+interface Instance extends CompiledKernel<Kernel> {
   owner: SoftmaxLoss | undefined;
 }
 let instance: Instance | undefined;
 
 function getInstance(): Instance {
-  if (instance) return instance;
-  const memory = new WebAssembly.Memory({ initial: 1 });
-  const module = new WebAssembly.Module(kernelBytes());
-  const exports = new WebAssembly.Instance(module, { env: { memory, log: Math.log } }).exports;
-  instance = { kernel: exports.objective as Kernel, memory, owner: undefined };
+  instance ??= { ...compileKernel<Kernel>(kernelBytes(), "objective", { log: Math.log }), owner: undefined };
   return instance;
 }
 
@@ -131,7 +127,6 @@ export class SoftmaxLoss {
     const scoresAt = gradientAt + gradientBytes;
     const scratchAt = scoresAt + scoreBytes;
     const end = scratchAt + 3 * blockRows * 8;
-    if (end > 65536 * pageBytes) throw new FitError(message.tooLargeForKernel(rows, columns));
     this.offsets = {
       features: 0,
       labels: labelsAt,
@@ -177,8 +172,7 @@ export class SoftmaxLoss {
   /** Copies the rows, interleaved by blocks, and the labels into the shared memory. */
   private upload(shared: Instance): void {
     const { offsets, rows, columns, features } = this;
-    const needed = Math.ceil(offsets.end / pageBytes) - shared.memory.buffer.byteLength / pageBytes;
-    if (needed > 0) shared.memory.grow(needed);
+    if (!reserveBytes(shared.memory, offsets.end)) throw new FitError(message.tooLargeForKernel(rows, columns));
     const doubles = new Float64Array(shared.memory.buffer);
     const interleaved = doubles.subarray(0, this.blocks * blockRows * columns);
     interleaved.fill(0);
@@ -575,22 +569,12 @@ function kernelBytes(): Uint8Array {
   ];
   const logType = [0x60, ...vector([[f64]]), ...vector([[f64]])];
   const objectiveType = [0x60, ...vector(Array.from({ length: 10 }, () => [i32])), ...vector([[f64]])];
-  const imports = [
-    [...name("env"), ...name("memory"), 0x02, 0x00, 0x01],
-    [...name("env"), ...name("log"), 0x00, 0],
-  ];
+  const imports = [memoryImport, [...name("env"), ...name("log"), 0x00, 0]];
   const locals = vector([
     [...unsignedLeb(12), i32],
     [...unsignedLeb(1), f64],
     [...unsignedLeb(16), v128],
   ]);
   const code = [...locals, ...body.flat(), ...op.end];
-  return new Uint8Array([
-    ...[0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00],
-    ...section(1, vector([logType, objectiveType])),
-    ...section(2, vector(imports)),
-    ...section(3, vector([[1]])),
-    ...section(7, vector([[...name("objective"), 0x00, 1]])),
-    ...section(10, vector([[...unsignedLeb(code.length), ...code]])),
-  ]);
+  return moduleBytes([logType, objectiveType], imports, 1, "objective", code);
 }

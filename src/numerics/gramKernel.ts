@@ -22,33 +22,26 @@
 import { FitError } from "../errors.js";
 import { message } from "../messages.js";
 import {
+  compileKernel,
   forLoop,
   i32,
-  name,
+  memoryImport,
+  moduleBytes,
   op,
-  pageBytes,
-  section,
+  reserveBytes,
   unsignedLeb,
   v128,
   vector,
-  WebAssembly,
   type Bytes,
+  type CompiledKernel,
 } from "./wasm.js";
 
 type Kernel = (rows: number, quads: number, rowBytes: number, out: number) => void;
 
-interface Instance {
-  kernel: Kernel;
-  memory: { buffer: ArrayBuffer; grow(pages: number): number };
-}
-let instance: Instance | undefined;
+let instance: CompiledKernel<Kernel> | undefined;
 
-function getInstance(): Instance {
-  if (instance) return instance;
-  const memory = new WebAssembly.Memory({ initial: 1 });
-  const module = new WebAssembly.Module(kernelBytes());
-  const exports = new WebAssembly.Instance(module, { env: { memory } }).exports;
-  instance = { kernel: exports.gram as Kernel, memory };
+function getInstance(): CompiledKernel<Kernel> {
+  instance ??= compileKernel<Kernel>(kernelBytes(), "gram");
   return instance;
 }
 
@@ -69,10 +62,9 @@ export function gramSimd(x: Float64Array, n: number, p: number, out: Float64Arra
   const width = p + (p % 2); // columns per padded row
   const height = n + ((4 - (n % 4)) % 4); // padded rows
   const rowsBytes = height * width * 8;
-  const end = rowsBytes + height * height * 8;
-  if (end > 65536 * pageBytes) throw new FitError(message.tooLargeForKernel(n, p));
-  const needed = Math.ceil(end / pageBytes) - shared.memory.buffer.byteLength / pageBytes;
-  if (needed > 0) shared.memory.grow(needed);
+  if (!reserveBytes(shared.memory, rowsBytes + height * height * 8)) {
+    throw new FitError(message.tooLargeForKernel(n, p));
+  }
   const doubles = new Float64Array(shared.memory.buffer);
   for (let i = 0; i < n; i++) {
     doubles.set(x.subarray(i * p, i * p + p), i * width);
@@ -226,18 +218,10 @@ function kernelBytes(): Uint8Array {
     ]),
   ];
   const gramType = [0x60, ...vector(Array.from({ length: 4 }, () => [i32])), ...vector([])];
-  const imports = [[...name("env"), ...name("memory"), 0x02, 0x00, 0x01]];
   const locals = vector([
     [...unsignedLeb(10), i32],
     [...unsignedLeb(11), v128],
   ]);
   const code = [...locals, ...body.flat(), ...op.end];
-  return new Uint8Array([
-    ...[0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00],
-    ...section(1, vector([gramType])),
-    ...section(2, vector(imports)),
-    ...section(3, vector([[0]])),
-    ...section(7, vector([[...name("gram"), 0x00, 0]])),
-    ...section(10, vector([[...unsignedLeb(code.length), ...code]])),
-  ]);
+  return moduleBytes([gramType], [memoryImport], 0, "gram", code);
 }

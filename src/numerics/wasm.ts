@@ -12,13 +12,13 @@
 export const pageBytes = 65536;
 
 /** The parts of the WebAssembly JavaScript interface used here (the TypeScript library in use lacks them). */
-export interface WebAssemblyApi {
+interface WebAssemblyApi {
   Module: new (bytes: Uint8Array) => object;
   Instance: new (module: object, imports: object) => { exports: Record<string, unknown> };
   Memory: new (descriptor: { initial: number }) => { buffer: ArrayBuffer; grow(pages: number): number };
 }
 /** The global WebAssembly object, typed by {@link WebAssemblyApi}. */
-export const WebAssembly: WebAssemblyApi = (globalThis as unknown as { WebAssembly: WebAssemblyApi }).WebAssembly;
+const WebAssembly: WebAssemblyApi = (globalThis as unknown as { WebAssembly: WebAssemblyApi }).WebAssembly;
 
 export type Bytes = number[];
 
@@ -131,3 +131,56 @@ export function forLoop(counter: number, limit: number, body: Bytes[]): Bytes[] 
 
 /** `f64x2.splat(value)`. */
 export const splat = (value: number): Bytes[] => [op.f64Const(value), op.f64x2Splat];
+
+/** A kernel's linear memory, as the WebAssembly interface gives it. */
+export type KernelMemory = { buffer: ArrayBuffer; grow(pages: number): number };
+
+/** A compiled kernel: its exported function and the memory it reads and writes. */
+export interface CompiledKernel<F> {
+  kernel: F;
+  memory: KernelMemory;
+}
+
+/**
+ * Compiles a kernel module that imports `env.memory` (a new memory of one page) and any other `env`
+ * entries given, and returns its export `exportName` with the memory.
+ */
+export function compileKernel<F>(bytes: Uint8Array, exportName: string, env: object = {}): CompiledKernel<F> {
+  const memory = new WebAssembly.Memory({ initial: 1 });
+  const module = new WebAssembly.Module(bytes);
+  const exports = new WebAssembly.Instance(module, { env: { ...env, memory } }).exports;
+  return { kernel: exports[exportName] as F, memory };
+}
+
+/** Grows the memory to hold at least `bytes` bytes; false when that is past a WebAssembly memory's 4 GiB. */
+export function reserveBytes(memory: KernelMemory, bytes: number): boolean {
+  if (bytes > 65536 * pageBytes) return false;
+  const needed = Math.ceil(bytes / pageBytes) - memory.buffer.byteLength / pageBytes;
+  if (needed > 0) memory.grow(needed);
+  return true;
+}
+
+/**
+ * A module's bytes: its function types, its imports (`env.memory` first), one function of type
+ * `typeIndex` exported as `exportName`, and that function's code (locals, then instructions).
+ */
+export function moduleBytes(
+  types: Bytes[],
+  imports: Bytes[],
+  typeIndex: number,
+  exportName: string,
+  code: Bytes,
+): Uint8Array {
+  const functionIndex = imports.length - 1; // imported functions come first; the memory is not one
+  return new Uint8Array([
+    ...[0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00],
+    ...section(1, vector(types)),
+    ...section(2, vector(imports)),
+    ...section(3, vector([[typeIndex]])),
+    ...section(7, vector([[...name(exportName), 0x00, functionIndex]])),
+    ...section(10, vector([[...unsignedLeb(code.length), ...code]])),
+  ]);
+}
+
+/** The import of `env.memory`, of at least one page. */
+export const memoryImport: Bytes = [...name("env"), ...name("memory"), 0x02, 0x00, 0x01];

@@ -33,6 +33,20 @@ function sortedNeighbors(training: number[][], query: number[], k: number): numb
   return [...distances.keys()].sort((a, b) => distances[a] - distances[b] || a - b).slice(0, k);
 }
 
+/** nearestNeighbors on rows given as arrays, and what a stable sort of each query's distances gives. */
+function searchAndSort(training: number[][], queries: number[][], columns: number, k: number) {
+  const kept = Math.min(k, training.length);
+  const found = nearestNeighbors(
+    Float64Array.from(training.flat()),
+    training.length,
+    Float64Array.from(queries.flat()),
+    queries.length,
+    columns,
+    kept,
+  );
+  return { found: Array.from(found), expected: queries.flatMap((query) => sortedNeighbors(training, query, kept)) };
+}
+
 describe("nearestNeighbors", () => {
   it("breaks ties in distance by training order: the earlier row wins", () => {
     // Rows at distance 1 from the query 0: indices 1, 2 and 3 (values −1, 1, −1); k = 2 keeps 1 and 2.
@@ -52,17 +66,8 @@ describe("nearestNeighbors", () => {
         }),
         (columns, k, table) => {
           const rows = table.map((row) => row.slice(0, columns));
-          const training = rows.slice(1);
-          const query = rows[0];
-          const found = nearestNeighbors(
-            Float64Array.from(training.flat()),
-            training.length,
-            Float64Array.from(query),
-            1,
-            columns,
-            Math.min(k, training.length),
-          );
-          expect(Array.from(found)).toEqual(sortedNeighbors(training, query, Math.min(k, training.length)));
+          const { found, expected } = searchAndSort(rows.slice(1), [rows[0]], columns, k);
+          expect(found).toEqual(expected);
         },
       ),
       { numRuns: 300, seed: 20261201 },
@@ -83,19 +88,8 @@ describe("nearestNeighbors", () => {
         }),
         (columns, queryCount, k, table) => {
           const rows = table.map((row) => row.slice(0, columns));
-          const queries = rows.slice(0, queryCount);
-          const training = rows.slice(queryCount);
-          const kept = Math.min(k, training.length);
-          const found = nearestNeighbors(
-            Float64Array.from(training.flat()),
-            training.length,
-            Float64Array.from(queries.flat()),
-            queries.length,
-            columns,
-            kept,
-          );
-          const expected = queries.flatMap((query) => sortedNeighbors(training, query, kept));
-          expect(Array.from(found)).toEqual(expected);
+          const { found, expected } = searchAndSort(rows.slice(queryCount), rows.slice(0, queryCount), columns, k);
+          expect(found).toEqual(expected);
         },
       ),
       { numRuns: 300, seed: 20261203 },
@@ -120,16 +114,8 @@ describe("nearestNeighbors on wide rows (the WebAssembly distance kernel)", () =
           const training = Array.from({ length: trainingCount }, row);
           const queries = Array.from({ length: queryCount }, row);
           training.push(training[0].slice()); // an exact duplicate: the earlier row must win
-          const kept = Math.min(k, training.length);
-          const found = nearestNeighbors(
-            Float64Array.from(training.flat()),
-            training.length,
-            Float64Array.from(queries.flat()),
-            queries.length,
-            columns,
-            kept,
-          );
-          expect(Array.from(found)).toEqual(queries.flatMap((query) => sortedNeighbors(training, query, kept)));
+          const { found, expected } = searchAndSort(training, queries, columns, k);
+          expect(found).toEqual(expected);
         },
       ),
       { numRuns: 150, seed: 20261203 },
@@ -141,15 +127,11 @@ describe("nearestNeighbors on wide rows (the WebAssembly distance kernel)", () =
     // near ties would order differently; the stable sort's reference sums run in that order.
     const random = new RandomStream(7);
     const columns = 300;
-    const trainingRows = 150;
-    const queryRows = 21;
-    const training = Float64Array.from({ length: trainingRows * columns }, () => random.normal());
-    const queries = Float64Array.from({ length: queryRows * columns }, () => random.normal());
-    const rows = (x: Float64Array, n: number) =>
-      Array.from({ length: n }, (_, i) => Array.from(x.subarray(i * columns, (i + 1) * columns)));
-    const found = nearestNeighbors(training, trainingRows, queries, queryRows, columns, 7);
-    const expected = rows(queries, queryRows).flatMap((q) => sortedNeighbors(rows(training, trainingRows), q, 7));
-    expect(Array.from(found)).toEqual(expected);
+    const row = () => Array.from({ length: columns }, () => random.normal());
+    const training = Array.from({ length: 150 }, row);
+    const queries = Array.from({ length: 21 }, row);
+    const { found, expected } = searchAndSort(training, queries, columns, 7);
+    expect(found).toEqual(expected);
   });
 });
 

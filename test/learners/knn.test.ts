@@ -74,9 +74,8 @@ describe("nearestNeighbors", () => {
     );
   });
 
-  it("gives each query the same neighbors whether searched in a group of four or alone", () => {
-    // Queries go four at a time through one pass over each training row; 1 to 11 queries exercise full
-    // groups and the ones left over, and 1 to 20 columns the blocks of 8 and the columns after them.
+  it("agrees with a stable sort for several queries on narrow rows", () => {
+    // The kernel takes queries eight at a time: 1 to 11 queries exercise a full group and a padded one.
     fc.assert(
       fc.property(
         fc.integer({ min: 1, max: 20 }),
@@ -97,10 +96,10 @@ describe("nearestNeighbors", () => {
   });
 });
 
-describe("nearestNeighbors on wide rows (the WebAssembly distance kernel)", () => {
+describe("nearestNeighbors on wide rows", () => {
   it("agrees with a stable sort of all distances, ties included, for any number of queries", () => {
-    // From 64 columns the distances come from distanceKernel.ts, eight queries at a time; 1 to 19
-    // queries exercise full groups and the padded last one. Small integers make many exact ties.
+    // 1 to 19 queries exercise full groups of eight and a padded last one. Small integers make many
+    // exact ties.
     fc.assert(
       fc.property(
         fc.integer({ min: 64, max: 80 }),

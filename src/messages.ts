@@ -114,6 +114,8 @@ export const message = {
   /** A message about a file's content (a study file's option) prefixed with the file. */
   inFile: (file: string, text: string) => `${file}: ${text}`,
   wrongFileKind: (file: string, expected: string) => `${file}: not a ${expected} file written by headroom`,
+  forecastOfAnotherCurve: (forecastFile: string, curveFile: string, difference: string) =>
+    `${forecastFile}: not a forecast of ${curveFile} (${difference}); run headroom forecast on it again`,
   curveTooShort: (sizes: number) =>
     `the curve has ${sizes} distinct training size${sizes === 1 ? "" : "s"}; a forecast needs at least 3`,
   missingProjections: (file: string, missing: number[], needed: number[]) =>

@@ -91,6 +91,20 @@ beforeAll(async () => {
       path("curve.json"),
     ],
     ["forecast", path("curve.json"), "--at", "150,180,210", "--out", path("forecast.json")],
+    // Another curve of the same data, for the report's check that the forecast is of its curve.
+    [
+      "measure",
+      path("iris.csv"),
+      "--label",
+      "class",
+      "--repeats",
+      "1",
+      "--sizes",
+      "20,40,60",
+      "--quiet",
+      "--out",
+      path("other-curve.json"),
+    ],
   ]) {
     const c = capture();
     expect(await run(argv, c.io), c.stderr()).toBe(ExitCode.ok);
@@ -391,6 +405,52 @@ describe("bad input gives one line, its exit code, no stack trace and no output"
     expect(existsSync(out)).toBe(false);
     expect(existsSync(`${out}.checkpoint.jsonl`)).toBe(false);
     expect(existsSync(path("study-out"))).toBe(false);
+  });
+
+  it("refuses a report of a curve with the forecast of another", async () => {
+    const c = capture();
+    const page = path("mixed-report.html");
+    const argv = ["report", "--curve", path("other-curve.json"), "--forecast", path("forecast.json"), "--out", page];
+    expect(await run(argv, c.io)).toBe(ExitCode.data);
+    const forecastSizes = (
+      JSON.parse(readFileSync(path("forecast.json"), "utf8")) as { measured: { trainingSize: number }[] }
+    ).measured
+      .map((point) => point.trainingSize)
+      .join(", ");
+    expect(c.stderr()).toBe(
+      `headroom: ${path("forecast.json")}: not a forecast of ${path("other-curve.json")} (it was fitted to training ` +
+        `sizes ${forecastSizes}, the curve has 20, 40, 60); run headroom forecast on it again\n`,
+    );
+    expect(existsSync(page)).toBe(false);
+    // The same sizes with one score changed: the means differ.
+    const changed = JSON.parse(readFileSync(path("curve.json"), "utf8")) as { points: { scores: number[] }[] };
+    changed.points[0].scores[0] = changed.points[0].scores[0] > 0.5 ? 0 : 1;
+    writeFileSync(path("changed-curve.json"), JSON.stringify(changed));
+    const d = capture();
+    const changedArgv = ["report", "--curve", path("changed-curve.json"), "--forecast", path("forecast.json")];
+    expect(await run([...changedArgv, "--out", page], d.io)).toBe(ExitCode.data);
+    expect(d.stderr()).toMatch(
+      /\(at training size \d+ it records a mean score of [\d.]+ from \d+ fits, the curve [\d.]+ from \d+\)/,
+    );
+    expect(existsSync(page)).toBe(false);
+    // The forecast's own curve passes the check (the page is written).
+    expect(
+      await run(
+        [
+          "report",
+          "--curve",
+          path("curve.json"),
+          "--forecast",
+          path("forecast.json"),
+          "--quiet",
+          "--no-chart-files",
+          "--out",
+          page,
+        ],
+        capture().io,
+      ),
+    ).toBe(ExitCode.ok);
+    expect(existsSync(page)).toBe(true);
   });
 
   it("prints the stack trace only with --debug", async () => {

@@ -1,6 +1,8 @@
 import { Command } from "commander";
 import { dirname, join } from "node:path";
+import { DataError } from "../../errors.js";
 import { writeFileAtomic } from "../../io/files.js";
+import { message } from "../../messages.js";
 import { toolVersion } from "../../version.js";
 import type { CliIo } from "../io.js";
 
@@ -27,14 +29,22 @@ export function reportCommand(io: CliIo, commandLine: string): Command {
     .action(async (options: Record<string, string | boolean | undefined>) => {
       // Imported here, not at the top: the report modules (vega, vega-lite and their inlined bundles)
       // are heavy, and the other commands need not load them.
-      const [{ readCurve }, { readForecast }, { readDecision }, { reportFiles }] = await Promise.all([
-        import("../../curve/readCurve.js"),
-        import("../../forecast/readForecast.js"),
-        import("../../weigh/readDecision.js"),
-        import("../../report/reportFiles.js"),
-      ]);
+      const [{ readCurve }, { readForecast }, { readDecision }, { reportFiles }, { forecastCurveDifference }] =
+        await Promise.all([
+          import("../../curve/readCurve.js"),
+          import("../../forecast/readForecast.js"),
+          import("../../weigh/readDecision.js"),
+          import("../../report/reportFiles.js"),
+          import("../../report/sameCurve.js"),
+        ]);
       const curve = readCurve(options.curve as string);
       const forecast = readForecast(options.forecast as string);
+      const difference = forecastCurveDifference(curve, forecast);
+      if (difference !== null) {
+        throw new DataError(
+          message.forecastOfAnotherCurve(options.forecast as string, options.curve as string, difference),
+        );
+      }
       const decision = typeof options.decision === "string" ? readDecision(options.decision) : undefined;
       const files = await reportFiles(
         {

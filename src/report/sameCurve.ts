@@ -1,0 +1,31 @@
+/**
+ * Whether a forecast was made from a given curve: the report draws both, and a forecast of another
+ * curve (another data set, learner or seed) would put a projection beside measurements it did not
+ * come from, with nothing on the page to show it.
+ */
+import type { CurveFile } from "../curve/curveFile.js";
+import type { ForecastFile } from "../forecast/forecastFile.js";
+import { measuredCurve } from "../forecast/measuredCurve.js";
+
+/**
+ * The first difference between what the forecast records of its curve (metric, training sizes, number
+ * of fits and mean score at each) and the curve itself, in words; null when there is none. The means
+ * are compared exactly: the forecast stores them as this same summary computes them, and JSON keeps
+ * every double.
+ */
+export function forecastCurveDifference(curve: CurveFile, forecast: ForecastFile): string | null {
+  if (curve.metric !== forecast.metric) return `its metric is ${forecast.metric}, the curve's ${curve.metric}`;
+  const summaries = measuredCurve(curve).summaries;
+  const sizes = (list: readonly { trainingSize: number }[]) => list.map((s) => s.trainingSize).join(", ");
+  if (summaries.length !== forecast.measured.length || sizes(summaries) !== sizes(forecast.measured)) {
+    return `it was fitted to training sizes ${sizes(forecast.measured)}, the curve has ${sizes(summaries)}`;
+  }
+  for (let i = 0; i < summaries.length; i++) {
+    const ours = summaries[i];
+    const theirs = forecast.measured[i];
+    if (ours.fits !== theirs.fits || ours.mean !== theirs.mean) {
+      return `at training size ${ours.trainingSize} it records a mean score of ${theirs.mean} from ${theirs.fits} fits, the curve ${ours.mean} from ${ours.fits}`;
+    }
+  }
+  return null;
+}

@@ -10,8 +10,8 @@ import { measuredCurve } from "../forecast/measuredCurve.js";
 /**
  * The first difference between what the forecast records of its curve (metric, training sizes, number
  * of fits and mean score at each) and the curve itself, in words; null when there is none. The means
- * are compared exactly: the forecast stores them as this same summary computes them, and JSON keeps
- * every double.
+ * may differ by round-off (1e-9 of their size, or of 1): a file written by hand or by another version
+ * may have summed them in another order.
  */
 export function forecastCurveDifference(curve: CurveFile, forecast: ForecastFile): string | null {
   if (curve.metric !== forecast.metric) return `its metric is ${forecast.metric}, the curve's ${curve.metric}`;
@@ -23,7 +23,8 @@ export function forecastCurveDifference(curve: CurveFile, forecast: ForecastFile
   for (let i = 0; i < summaries.length; i++) {
     const ours = summaries[i];
     const theirs = forecast.measured[i];
-    if (ours.fits !== theirs.fits || ours.mean !== theirs.mean) {
+    const roundOff = 1e-9 * Math.max(1, Math.abs(ours.mean));
+    if (ours.fits !== theirs.fits || !(Math.abs(ours.mean - theirs.mean) <= roundOff)) {
       return `at training size ${ours.trainingSize} it records a mean score of ${theirs.mean} from ${theirs.fits} fits, the curve ${ours.mean} from ${ours.fits}`;
     }
   }

@@ -16,16 +16,13 @@
  * the last group padded with zeros. For training row t the module writes the eight distances to
  * `out + 64 t`.
  */
-import { FitError } from "../errors.js";
-import { message } from "../messages.js";
 import {
-  compileKernel,
+  KernelSlot,
   forLoop,
   i32,
   memoryImport,
   moduleBytes,
   op,
-  reserveBytes,
   unsignedLeb,
   v128,
   vector,
@@ -38,17 +35,7 @@ export const queriesPerGroup = 8;
 
 type Kernel = (training: number, trainingRows: number, columns: number, queries: number, out: number) => void;
 
-let instance: CompiledKernel<Kernel> | undefined;
-
-function getInstance(): CompiledKernel<Kernel> {
-  instance ??= compileKernel<Kernel>(kernelBytes(), "distances");
-  return instance;
-}
-
-/** Lets this thread's WebAssembly memory (as large as the largest training set since) be collected. */
-export function releaseDistanceMemory(): void {
-  instance = undefined;
-}
+const slot = new KernelSlot<Kernel>(kernelBytes, "distances");
 
 /**
  * The training rows, copied once into the module's memory, against which groups of eight queries are
@@ -68,12 +55,9 @@ export class DistanceTable {
     private readonly trainingRows: number,
     private readonly columns: number,
   ) {
-    this.shared = getInstance();
     this.queriesAt = trainingRows * columns * 8;
     this.outAt = this.queriesAt + queriesPerGroup * columns * 8;
-    if (!reserveBytes(this.shared.memory, this.outAt + trainingRows * queriesPerGroup * 8)) {
-      throw new FitError(message.tooLargeForKernel(trainingRows, columns));
-    }
+    this.shared = slot.reserve(this.outAt + trainingRows * queriesPerGroup * 8, trainingRows, columns);
     new Float64Array(this.shared.memory.buffer).set(training.subarray(0, trainingRows * columns), 0);
   }
 

@@ -12,9 +12,7 @@ import { LogisticRegression } from "./logistic.js";
 import { GaussianNaiveBayes } from "./naiveBayes.js";
 import { RidgeRegression } from "./ridge.js";
 import { releaseScratch } from "./scratch.js";
-import { releaseGramMemory } from "../numerics/gramKernel.js";
-import { releaseDistanceMemory } from "./distanceKernel.js";
-import { releaseSoftmaxMemory } from "./softmaxKernel.js";
+import { releaseKernelMemory } from "../numerics/wasm.js";
 import { LinearSvm } from "./svm.js";
 
 const factories: Record<string, () => Learner> = {
@@ -66,11 +64,12 @@ export function createRegressionLearner(name: string): RegressionLearner | undef
 }
 
 /**
- * Memory the learners keep on a thread between fits (work arrays, a WebAssembly kernel's memory),
- * released by {@link releaseLearnerMemory}. A learner with such memory adds its release here, so that
- * the curve loop knows no learner's internals.
+ * Memory the learners keep on a thread between fits (work arrays; the memories of the WebAssembly
+ * kernels, each a KernelSlot of src/numerics/wasm.ts, all released together), released by
+ * {@link releaseLearnerMemory}. A learner with other such memory adds its release here, so that the
+ * curve loop knows no learner's internals.
  */
-const releases: (() => void)[] = [releaseScratch, releaseSoftmaxMemory, releaseGramMemory, releaseDistanceMemory];
+const releases: (() => void)[] = [releaseScratch, releaseKernelMemory];
 
 /** Gives back the memory the learners keep on this thread between fits; they reallocate it when next fitting. */
 export function releaseLearnerMemory(): void {

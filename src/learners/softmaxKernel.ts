@@ -30,10 +30,8 @@
  *
  * The binary format follows the WebAssembly Core Specification 2.0, chapter 5 ("Binary Format").
  */
-import { FitError } from "../errors.js";
-import { message } from "../messages.js";
 import {
-  compileKernel,
+  KernelSlot,
   f64,
   forLoop,
   i32,
@@ -41,7 +39,6 @@ import {
   moduleBytes,
   name,
   op,
-  reserveBytes,
   splat,
   unsignedLeb,
   v128,
@@ -66,24 +63,8 @@ type Kernel = (
   classes: number,
 ) => number;
 
-/** The module's instance and memory, one per thread, with the kernel whose data the memory holds. */
-interface Instance extends CompiledKernel<Kernel> {
-  owner: SoftmaxLoss | undefined;
-}
-let instance: Instance | undefined;
-
-function getInstance(): Instance {
-  instance ??= { ...compileKernel<Kernel>(kernelBytes(), "objective", { log: Math.log }), owner: undefined };
-  return instance;
-}
-
-/**
- * Lets this thread's WebAssembly memory (which holds the largest fit's rows since) be collected; the
- * next fit compiles the module again and starts a new memory.
- */
-export function releaseSoftmaxMemory(): void {
-  instance = undefined;
-}
+/** The module, one per thread; its memory holds the rows of `owner`, the SoftmaxLoss last uploaded. */
+const slot = new KernelSlot<Kernel>(kernelBytes, "objective", { log: Math.log });
 
 /**
  * The summed softmax log-loss and its gradient sums on fixed rows, evaluated at any coefficients.
@@ -136,7 +117,7 @@ export class SoftmaxLoss {
       scratch: scratchAt,
       end,
     };
-    this.upload(getInstance());
+    this.upload();
   }
 
   /**
@@ -145,8 +126,8 @@ export class SoftmaxLoss {
    * entry k·(columns + 1) + j, with j = columns for the intercept.
    */
   evaluate(theta: Float64Array, gradient: Float64Array): number {
-    const shared = getInstance();
-    if (shared.owner !== this) this.upload(shared);
+    const current = slot.get();
+    const shared = current.owner === this ? current : this.upload();
     const { offsets, classes, columns } = this;
     const size = classes * (columns + 1);
     const doubles = new Float64Array(shared.memory.buffer);
@@ -169,10 +150,10 @@ export class SoftmaxLoss {
     return loss;
   }
 
-  /** Copies the rows, interleaved by blocks, and the labels into the shared memory. */
-  private upload(shared: Instance): void {
+  /** Copies the rows, interleaved by blocks, and the labels into the shared memory; returns the kernel. */
+  private upload(): CompiledKernel<Kernel> {
     const { offsets, rows, columns, features } = this;
-    if (!reserveBytes(shared.memory, offsets.end)) throw new FitError(message.tooLargeForKernel(rows, columns));
+    const shared = slot.reserve(offsets.end, rows, columns);
     const doubles = new Float64Array(shared.memory.buffer);
     const interleaved = doubles.subarray(0, this.blocks * blockRows * columns);
     interleaved.fill(0);
@@ -182,6 +163,7 @@ export class SoftmaxLoss {
     }
     new Int32Array(shared.memory.buffer, offsets.labels, rows).set(this.labels.subarray(0, rows));
     shared.owner = this;
+    return shared;
   }
 }
 

@@ -19,52 +19,32 @@
  * sum). The module takes four rows against two at a time, eight pairs of running sums in registers, so
  * that each value loaded serves four or two products.
  */
-import { FitError } from "../errors.js";
-import { message } from "../messages.js";
 import {
-  compileKernel,
+  KernelSlot,
   forLoop,
   i32,
   memoryImport,
   moduleBytes,
   op,
-  reserveBytes,
   unsignedLeb,
   v128,
   vector,
   type Bytes,
-  type CompiledKernel,
 } from "./wasm.js";
 
 type Kernel = (rows: number, quads: number, rowBytes: number, out: number) => void;
 
-let instance: CompiledKernel<Kernel> | undefined;
-
-function getInstance(): CompiledKernel<Kernel> {
-  instance ??= compileKernel<Kernel>(kernelBytes(), "gram");
-  return instance;
-}
-
-/**
- * Lets this thread's WebAssembly memory (as large as the largest block since) be collected; the next
- * Gram matrix compiles the module again and starts a new memory.
- */
-export function releaseGramMemory(): void {
-  instance = undefined;
-}
+const slot = new KernelSlot<Kernel>(kernelBytes, "gram");
 
 /**
  * X Xᵀ of the `n × p` row-major block `x` into `out` (`n × n`, row-major, both triangles).
  * @throws FitError when the block does not fit in a WebAssembly memory (4 GiB).
  */
 export function gramSimd(x: Float64Array, n: number, p: number, out: Float64Array): Float64Array {
-  const shared = getInstance();
   const width = p + (p % 2); // columns per padded row
   const height = n + ((4 - (n % 4)) % 4); // padded rows
   const rowsBytes = height * width * 8;
-  if (!reserveBytes(shared.memory, rowsBytes + height * height * 8)) {
-    throw new FitError(message.tooLargeForKernel(n, p));
-  }
+  const shared = slot.reserve(rowsBytes + height * height * 8, n, p);
   const doubles = new Float64Array(shared.memory.buffer);
   for (let i = 0; i < n; i++) {
     doubles.set(x.subarray(i * p, i * p + p), i * width);

@@ -8,6 +8,9 @@
  * dependency for that, and the modules would then ship as opaque binaries.
  */
 
+import { FitError } from "../errors.js";
+import { message } from "../messages.js";
+
 /** Bytes of one WebAssembly memory page. */
 export const pageBytes = 65536;
 
@@ -135,29 +138,65 @@ export const splat = (value: number): Bytes[] => [op.f64Const(value), op.f64x2Sp
 /** A kernel's linear memory, as the WebAssembly interface gives it. */
 export type KernelMemory = { buffer: ArrayBuffer; grow(pages: number): number };
 
-/** A compiled kernel: its exported function and the memory it reads and writes. */
+/** A compiled kernel: its exported function, the memory it reads and writes, and whose data that holds. */
 export interface CompiledKernel<F> {
   kernel: F;
   memory: KernelMemory;
+  /** The object whose data the memory holds, for a kernel whose callers take turns (softmaxKernel.ts). */
+  owner?: unknown;
 }
+
+/** Every kernel slot of this thread, for {@link releaseKernelMemory}. */
+const slots: { release(): void }[] = [];
 
 /**
- * Compiles a kernel module that imports `env.memory` (a new memory of one page) and any other `env`
- * entries given, and returns its export `exportName` with the memory.
+ * One kernel of this thread: compiled on first use with a new memory of one page, which grows as
+ * callers reserve room and is kept between calls until {@link releaseKernelMemory}. The module must
+ * import `env.memory`, and any other `env` entries given.
  */
-export function compileKernel<F>(bytes: Uint8Array, exportName: string, env: object = {}): CompiledKernel<F> {
-  const memory = new WebAssembly.Memory({ initial: 1 });
-  const module = new WebAssembly.Module(bytes);
-  const exports = new WebAssembly.Instance(module, { env: { ...env, memory } }).exports;
-  return { kernel: exports[exportName] as F, memory };
+export class KernelSlot<F> {
+  private compiled: CompiledKernel<F> | undefined;
+
+  constructor(
+    private readonly bytes: () => Uint8Array,
+    private readonly exportName: string,
+    private readonly env: object = {},
+  ) {
+    slots.push(this);
+  }
+
+  /** The kernel, compiled if need be. */
+  get(): CompiledKernel<F> {
+    if (this.compiled === undefined) {
+      const memory = new WebAssembly.Memory({ initial: 1 });
+      const module = new WebAssembly.Module(this.bytes());
+      const exports = new WebAssembly.Instance(module, { env: { ...this.env, memory } }).exports;
+      this.compiled = { kernel: exports[this.exportName] as F, memory };
+    }
+    return this.compiled;
+  }
+
+  /**
+   * The kernel, its memory grown to hold at least `bytes` bytes (views of the old buffer are then stale).
+   * @throws FitError when that is past a WebAssembly memory's 4 GiB, naming the `rows × columns` it was for.
+   */
+  reserve(bytes: number, rows: number, columns: number): CompiledKernel<F> {
+    const compiled = this.get();
+    if (bytes > 65536 * pageBytes) throw new FitError(message.tooLargeForKernel(rows, columns));
+    const needed = Math.ceil(bytes / pageBytes) - compiled.memory.buffer.byteLength / pageBytes;
+    if (needed > 0) compiled.memory.grow(needed);
+    return compiled;
+  }
+
+  /** Drops the kernel and its memory; the next use compiles it again. */
+  release(): void {
+    this.compiled = undefined;
+  }
 }
 
-/** Grows the memory to hold at least `bytes` bytes; false when that is past a WebAssembly memory's 4 GiB. */
-export function reserveBytes(memory: KernelMemory, bytes: number): boolean {
-  if (bytes > 65536 * pageBytes) return false;
-  const needed = Math.ceil(bytes / pageBytes) - memory.buffer.byteLength / pageBytes;
-  if (needed > 0) memory.grow(needed);
-  return true;
+/** Lets every kernel memory of this thread (each as large as the largest data since) be collected. */
+export function releaseKernelMemory(): void {
+  for (const slot of slots) slot.release();
 }
 
 /**

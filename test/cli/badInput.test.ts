@@ -76,35 +76,16 @@ const files: Record<string, string | Buffer> = {
 beforeAll(async () => {
   for (const [name, content] of Object.entries(files)) writeFileSync(path(name), content);
   // A valid forecast.json, for the plan cases: measured and forecast from iris.
+  const measureIris = (out: string, ...more: string[]) => [
+    ...["measure", path("iris.csv"), "--label", "class", "--repeats", "1", "--workers", "1", "--quiet"],
+    ...more,
+    ...["--out", path(out)],
+  ];
   for (const argv of [
-    [
-      "measure",
-      path("iris.csv"),
-      "--label",
-      "class",
-      "--repeats",
-      "1",
-      "--workers",
-      "1",
-      "--quiet",
-      "--out",
-      path("curve.json"),
-    ],
+    measureIris("curve.json"),
     ["forecast", path("curve.json"), "--at", "150,180,210", "--out", path("forecast.json")],
     // Another curve of the same data, for the report's check that the forecast is of its curve.
-    [
-      "measure",
-      path("iris.csv"),
-      "--label",
-      "class",
-      "--repeats",
-      "1",
-      "--sizes",
-      "20,40,60",
-      "--quiet",
-      "--out",
-      path("other-curve.json"),
-    ],
+    measureIris("other-curve.json", "--sizes", "20,40,60"),
   ]) {
     const c = capture();
     expect(await run(argv, c.io), c.stderr()).toBe(ExitCode.ok);

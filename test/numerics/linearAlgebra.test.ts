@@ -7,7 +7,7 @@ import {
   minimumNormSolve,
   symmetricEigen,
 } from "../../src/numerics/linearAlgebra.js";
-import { releaseGramMemory } from "../../src/numerics/gramKernel.js";
+import { releaseKernelMemory } from "../../src/numerics/wasm.js";
 import { RandomStream } from "../../src/random.js";
 
 /** A·B for row-major square matrices. */
@@ -148,7 +148,7 @@ describe("gramMatrix (WebAssembly SIMD kernel)", () => {
     // Small integers: every product and sum is exact, so the matrix is the textbook X Xᵀ.
     const x = Float64Array.of(1, 2, 3, 4, 5, 6); // rows (1, 2, 3) and (4, 5, 6)
     expect(Array.from(gramMatrix(x, 2, 3))).toEqual([14, 32, 32, 77]);
-    releaseGramMemory();
+    releaseKernelMemory();
     expect(Array.from(gramMatrix(x, 2, 3))).toEqual([14, 32, 32, 77]);
   });
 });

@@ -36,6 +36,7 @@ import {
   calibrationFor,
   continuationFor,
   continuedGain,
+  guessError,
   type CalibrationSet,
   type Continuation,
   type GainCalibration,
@@ -127,25 +128,38 @@ const gainNormals = new Map(
  */
 const learnable = (p: CorpusPilot): boolean => p.task === "classification";
 
-/** The continuation `forecastCurve` gives the pilot's curve with this calibration. */
-function continuationOf(pilot: CorpusPilot, calibration: GainCalibration | null): Continuation | null {
+/**
+ * The continuation `forecastCurve` gives the pilot's curve with this calibration; for a variant
+ * that takes the distance left whole (`byClasses` false), with the factor q at 1.
+ */
+function continuationOf(
+  pilot: CorpusPilot,
+  calibration: GainCalibration | null,
+  byClasses: boolean,
+): Continuation | null {
   if (calibration === null) return null;
   const { best } = scoreLimits(pilot.curve);
   const oriented = best === undefined ? null : orientationSign(pilot.curve) * best;
-  return continuationFor(calibration, pilot.curve.points[0].trainingSize, oriented);
+  return continuationFor(
+    calibration,
+    pilot.curve.points[0].trainingSize,
+    oriented,
+    byClasses ? guessError(pilot.curve) : 1,
+  );
 }
 
 /** The forecast of one case as forecastCurve makes it: the weighted point fits, the draws' 80% interval. */
 function forecastCase(
   pilot: CorpusPilot,
   calibration: GainCalibration | null,
+  byClasses: boolean,
   n: number,
   drawLimit = Infinity,
 ): { forecast: number; lower: number; upper: number } {
   const parts = cache[keyOf(pilot)] as Parts;
   const clamp = (v: number): number =>
     parts.range === undefined ? v : Math.min(parts.range[1], Math.max(parts.range[0], v));
-  const continuation = continuationOf(pilot, calibration);
+  const continuation = continuationOf(pilot, calibration, byClasses);
   const spread = calibration?.spread ?? 1;
   const normals = gainNormals.get(keyOf(pilot)) as number[];
   const drawn = (
@@ -203,6 +217,8 @@ interface Variant {
   constrained: boolean;
   /** Whether each corpus learner gets its own weights and spread (besides the pooled ones). */
   perLearner?: boolean;
+  /** Whether the distance left counts by the factor q of the number of classes (`guessError`). */
+  byClasses?: boolean;
 }
 
 /**
@@ -224,14 +240,11 @@ function learnWeights(
   const featureSum = new Array<number>(k).fill(0);
   for (const p of train) {
     const parts = cache[keyOf(p)] as Parts;
-    const continuation = continuationOf(p, {
-      ownWeight: 0,
-      chordWeight: 0,
-      slopeWeight: 0,
-      headroomWeight: 0,
-      spread: 1,
-      gainSpread: 0,
-    }) as Continuation;
+    const continuation = continuationOf(
+      p,
+      { ownWeight: 0, chordWeight: 0, slopeWeight: 0, headroomWeight: 0, spread: 1, gainSpread: 0 },
+      variant.byClasses === true,
+    ) as Continuation;
     const weight = 1 / (perDataSet.get(p.dataSet) as number);
     let anchor = 0;
     let chord = 0;
@@ -243,7 +256,10 @@ function learnWeights(
       const atSmallest = family.model(continuation.smallestSize, f.parameters);
       anchor += f.weight * atLargest;
       chord += (f.weight * (atLargest - atSmallest)) / Math.log(p.largest / continuation.smallestSize);
-      left += continuation.best === null ? 0 : f.weight * Math.max(0, continuation.best - atLargest);
+      left +=
+        continuation.best === null
+          ? 0
+          : f.weight * continuation.guessError * Math.max(0, continuation.best - atLargest);
       // The slope as continuedGain takes it: the gain with only s = 1, over one unit of ln n.
       slope +=
         f.weight *
@@ -302,12 +318,13 @@ const targetCoverage = 0.82;
 function coverageOf(
   train: readonly CorpusPilot[],
   calibration: GainCalibration,
+  byClasses: boolean,
 ): { overall: number; bySize: Map<number, number> } {
   const inside = new Map<number, number>();
   const count = new Map<number, number>();
   for (const p of train) {
     for (const t of p.targets) {
-      const f = forecastCase(p, calibration, t.size, 50);
+      const f = forecastCase(p, calibration, byClasses, t.size, 50);
       inside.set(p.size, (inside.get(p.size) ?? 0) + (f.lower <= t.truth && t.truth <= f.upper ? 1 : 0));
       count.set(p.size, (count.get(p.size) ?? 0) + 1);
     }
@@ -335,11 +352,12 @@ function learnCalibration(train: readonly CorpusPilot[], variant: Variant, learn
     let high = 4;
     while (high - low > 0.05) {
       const middle = (low + high) / 2;
-      if (coverageOf(train, { ...weights, spread: middle, gainSpread }).overall < targetCoverage) low = middle;
+      const trial = { ...weights, spread: middle, gainSpread };
+      if (coverageOf(train, trial, variant.byClasses === true).overall < targetCoverage) low = middle;
       else high = middle;
     }
     const calibration = { ...weights, spread: Math.round(((low + high) / 2) * 20) / 20, gainSpread };
-    const { bySize } = coverageOf(train, calibration);
+    const { bySize } = coverageOf(train, calibration, variant.byClasses === true);
     const unevenness = [...bySize.values()].reduce((s, c) => s + (c - targetCoverage) ** 2, 0) / bySize.size;
     if (best === undefined || unevenness < best.unevenness) best = { calibration, unevenness };
   }
@@ -372,11 +390,11 @@ function learnSet(train: readonly CorpusPilot[], variant: Variant, learnSpread: 
   return { pooled: learnCalibration(classificationCurves, variant, learnSpread), byLearner };
 }
 
-function results(pilot: CorpusPilot, set: CalibrationSet | null): CaseResult[] {
+function results(pilot: CorpusPilot, set: CalibrationSet | null, variant: Variant): CaseResult[] {
   const calibration = set === null ? null : calibrationFor(set, pilot.learner);
   return pilot.targets.map((t) => ({
     ...caseOf(pilot, t),
-    ...forecastCase(pilot, calibration, t.size),
+    ...forecastCase(pilot, calibration, variant.byClasses === true, t.size),
   }));
 }
 
@@ -394,7 +412,7 @@ function leaveOneOut(
       learnSpread,
     );
     calibrations[dataSet] = calibration;
-    for (const p of usable.filter((q) => q.dataSet === dataSet)) rows.push(...results(p, calibration));
+    for (const p of usable.filter((q) => q.dataSet === dataSet)) rows.push(...results(p, calibration, variant));
   }
   return { rows, calibrations };
 }
@@ -414,6 +432,13 @@ const variants: Variant[] = [
     perLearner: true,
   },
   {
+    name: "slope + distance left × (1 − 1/K), calibrated in the large, per learner",
+    terms: ["slope", "headroom"],
+    constrained: true,
+    perLearner: true,
+    byClasses: true,
+  },
+  {
     name: "chord + slope + distance left, calibrated in the large",
     terms: ["chord", "slope", "headroom"],
     constrained: true,
@@ -431,7 +456,7 @@ const variants: Variant[] = [
   },
 ];
 const chosen = variants.find(
-  (v) => v.name === (option("--variant") ?? "slope + distance left, calibrated in the large, per learner"),
+  (v) => v.name === (option("--variant") ?? "slope + distance left × (1 − 1/K), calibrated in the large, per learner"),
 ) as Variant;
 const groups: [string, (r: CaseResult) => boolean][] = [
   ["logistic", (r) => r.learner === "logistic"],

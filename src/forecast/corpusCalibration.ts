@@ -5,7 +5,7 @@
  * Learned from the 660 classification pilot curves (4070 pilot-to-target cases) of the
  * 23 classification data sets of fixtures/forecast-corpus (logistic regression and random
  * forest, accuracy), pilots of 50 to 800 rows, targets 2 to 16 times the pilot; variant
- * "slope + distance left, calibrated in the large, per learner". Checked leave-one-data-set-out: see the README's forecast section.
+ * "slope + distance left × (1 − 1/K), calibrated in the large, per learner". Checked leave-one-data-set-out: see the README's forecast section.
  */
 import type { CalibrationSet } from "./gainCorrection.js";
 
@@ -13,17 +13,17 @@ export const corpusCalibration: CalibrationSet = {
   pooled: {
     ownWeight: 0,
     chordWeight: 0,
-    slopeWeight: 0.4092,
-    headroomWeight: 0.0738,
-    spread: 0.15,
-    gainSpread: 0.01,
+    slopeWeight: 0.3073,
+    headroomWeight: 0.1372,
+    spread: 0,
+    gainSpread: 0.015,
   },
   byLearner: {
     forest: {
       ownWeight: 0,
       chordWeight: 0,
-      slopeWeight: 0.5585,
-      headroomWeight: 0.0601,
+      slopeWeight: 0.3862,
+      headroomWeight: 0.142,
       spread: 0,
       gainSpread: 0.015,
       learner: "forest",
@@ -31,8 +31,8 @@ export const corpusCalibration: CalibrationSet = {
     logistic: {
       ownWeight: 0,
       chordWeight: 0,
-      slopeWeight: 0.2482,
-      headroomWeight: 0.0902,
+      slopeWeight: 0.189,
+      headroomWeight: 0.1481,
       spread: 0,
       gainSpread: 0.01,
       learner: "logistic",

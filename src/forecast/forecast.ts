@@ -14,6 +14,7 @@ import { expectedValue, scoreLimits, storeCurve, storeFit, type WeightedFit } fr
 import {
   calibrationFor,
   continuationFor,
+  guessError,
   shippedCalibrations,
   type Continuation,
   type GainCalibration,
@@ -223,7 +224,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const continuation: Continuation | null =
     calibration === null
       ? null
-      : continuationFor(calibration, smallestMeasured, best === undefined ? null : sign * best);
+      : continuationFor(calibration, smallestMeasured, best === undefined ? null : sign * best, guessError(curve));
   const fits: WeightedFit[] = families.map((f) => ({
     family: f.family,
     weight: f.weight,
@@ -347,6 +348,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
       learnedFrom: calibration.learner ?? null,
       smallestSize: continuation.smallestSize,
       best: continuation.best === null ? null : sign * continuation.best + 0,
+      guessError: continuation.guessError,
     };
   }
   if (curve.metricRange !== undefined) forecast.metricRange = curve.metricRange;

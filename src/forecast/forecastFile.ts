@@ -163,5 +163,10 @@ export interface ForecastFile {
     smallestSize: number;
     /** The metric's best value, in the metric's units; null when unknown. */
     best: number | null;
+    /**
+     * The factor of the distance left: 1 − 1/K for K classes, 1/2 otherwise (gainCorrection.ts,
+     * `guessError`). Absent in earlier files, whose continuation took the distance whole (1).
+     */
+    guessError?: number;
   };
 }

@@ -113,6 +113,7 @@ export function forecastCurves(forecast: ForecastFile): ForecastCurves | undefin
           { ...c, gainSpread: c.gainSpread ?? 0 },
           c.smallestSize,
           c.best === null ? null : sign * c.best,
+          c.guessError ?? 1,
         );
   const drawn: DrawnCurve[] = stored.drawn.map((curve) => ({
     ...curve,

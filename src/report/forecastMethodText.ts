@@ -13,7 +13,7 @@ export function learnedForecastText(forecast: ForecastFile): string | undefined 
     [c.slopeWeight, "its slope at L"],
     [
       c.headroomWeight,
-      `the distance left to the metric's best value${c.best === null ? " (unknown for this metric, so left out)" : ""}`,
+      `the distance left to the metric's best value${c.best === null ? " (unknown for this metric, so left out)" : guessText(c.guessError)}`,
     ],
   ] as const;
   const gain =
@@ -27,12 +27,22 @@ export function learnedForecastText(forecast: ForecastFile): string | undefined 
     `curve, and the expected score, continues from its value at L by ${own}a gain per unit of ln(n / L) of ` +
     `${gain}; ${widthText(c.spread, c.gainSpread)}. These numbers were learned by ` +
     `stacked regression from a ` +
-    `corpus of learning curves measured by this tool on open data sets (pilots of 50 to 400 rows; the score ` +
+    `corpus of learning curves measured by this tool on open data sets (pilots of 50 to 800 rows; the score ` +
     `measured later on the whole data set at 2 to 16 times the pilot), ${learnedFromText(c.learnedFrom)}, ` +
     `fitted so that the summed forecast gain matches the summed gain measured later. They were checked ` +
     `leave-one-data-set-out: each data set was forecast with numbers learned from the others only; the ` +
     `project's README gives the figures. Far beyond ` +
     `16 times the pilot the corpus gives no check.`
+  );
+}
+
+/** How the distance left was counted (gainCorrection.ts, `guessError`); empty in earlier files. */
+function guessText(guessError: number | undefined): string {
+  if (guessError === undefined) return "";
+  return (
+    ` counted by ${Number(guessError.toFixed(3))} (one minus one over the number of classes, 1/2 when the ` +
+    `curve has no classes: on the corpus, more data won back less of the distance left with two classes ` +
+    `than with many)`
   );
 }
 

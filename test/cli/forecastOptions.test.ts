@@ -43,8 +43,10 @@ describe("headroom forecast options", () => {
     const text = c.stdout();
     expect(text).toContain("80% interval (expected score)");
     expect(text).toContain("80% interval (one model, 250 test rows)");
-    // An exact curve still has a width beyond its largest size: the learned gain's own error.
-    expect(text).toMatch(/^1600\t2\.0\t0\.894\d\t\[0\.88\d+, 0\.90\d+\]\t\[0\.8\d+, 0\.9\d+\]$/m);
+    // An exact curve still has a width beyond its largest size: the learned gain's own error. The
+    // expected score is pow3's at L = 800, 0.8820, plus the pooled continuation over ln 2:
+    // (s · 0.55 · 1.5 · 800^(−0.55) + h · 1/2 · 0.1180) · ln 2 = 0.0101 (a CSV curve has no classes).
+    expect(text).toMatch(/^1600\t2\.0\t0\.892\d\t\[0\.88\d+, 0\.90\d+\]\t\[0\.8\d+, 0\.9\d+\]$/m);
     expect(text).toMatch(/^families: pow3 \d+%/m);
     expect(text).toContain("target 0.88: expected score reaches it at training size 728");
     // The CSV does not say its folds: the assumption is a warning on stderr, not on stdout.

@@ -29,12 +29,12 @@ const pilots = corpusPilots(readCorpus(corpusDir)).filter((p) => p.draw === 1);
  * added to the pilot's own overall, 0.01 from 100-row pilots, and no data set off by more than 0.05 on
  * average. Where the forecast does not meet one yet (the random forest's added error, and the worst
  * data set: README, "How far the forecast can be trusted"), the limit is today's figure on this
- * subset (forest 0.013 and 0.016 added; worst data set: logistic 0.086, forest 0.120) plus a margin,
+ * subset (forest 0.011 and 0.015 added; worst data set: logistic 0.084, forest 0.124) plus a margin,
  * so that a change for the worse still fails.
  */
 const LIMITS: Record<string, { overall: number; fromHundred: number; worstDataSet: number }> = {
   logistic: { overall: 0.005, fromHundred: 0.01, worstDataSet: 0.1 },
-  forest: { overall: 0.015, fromHundred: 0.019, worstDataSet: 0.14 },
+  forest: { overall: 0.013, fromHundred: 0.017, worstDataSet: 0.14 },
 };
 
 function casesOf(learner: string): CaseResult[] {

@@ -8,7 +8,8 @@ import {
   resolveForecastOptions,
   type ForecastOptions,
 } from "../../src/forecast/forecast.js";
-import { continuedGain, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
+import { continuedGain, guessError, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
+import { forecastCurves, type ForecastCurves } from "../../src/forecast/storedCurves.js";
 import { RandomStream } from "../../src/random.js";
 
 /**
@@ -616,8 +617,8 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
   it("follows the family up to the largest measured size, and the learned gain beyond it", () => {
     // On exact pow3 points pow3 takes nearly all the weight, so the expected score is pow3's value at
     // L plus its continued gain written out by hand: o·(m(n) − m(L)) + (c·chord + s·slope +
-    // h·(1 − m(L)))·ln(n / L), with pow3's slope per unit of ln n at L, c·b·L^(−c), in closed form.
-    // The curve names no learner, so the pooled calibration applies.
+    // h·q·(1 − m(L)))·ln(n / L), with pow3's slope per unit of ln n at L, c·b·L^(−c), in closed form.
+    // The curve names no learner, so the pooled calibration applies, and no classes, so q = 1/2.
     const { ownWeight, chordWeight, slopeWeight, headroomWeight } = shippedCalibrations.pooled;
     const m = accuracyTruth;
     const smallest = 25;
@@ -627,7 +628,7 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
     const byHand =
       m(largest) +
       ownWeight * (m(n) - m(largest)) +
-      (chordWeight * chord + slopeWeight * slope + headroomWeight * (1 - m(largest))) * Math.log(n / largest);
+      (chordWeight * chord + slopeWeight * slope + headroomWeight * 0.5 * (1 - m(largest))) * Math.log(n / largest);
     const atFive = learned.projections.find((p) => p.trainingSize === n);
     expect(atFive?.expected).toBeCloseTo(byHand, 4);
     const band = learned.band.filter((b) => b.trainingSize <= largest);
@@ -641,8 +642,42 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
       learnedFrom: null,
       smallestSize: 25,
       best: 1,
+      guessError: 0.5,
     });
     expect(own.continuation).toBeUndefined();
+  });
+
+  it("counts the distance left by 1 − 1/K for K classes (guessError), 1/2 for other curves", () => {
+    expect(guessError({ task: "classification", classNames: ["a", "b"] })).toBe(0.5);
+    expect(guessError({ task: "classification", classNames: ["a", "b", "c", "d"] })).toBe(0.75);
+    expect(guessError({ task: "regression" })).toBe(0.5);
+    expect(guessError({})).toBe(0.5);
+    // With ten classes the same curve is forecast to gain more beyond L than with two: the
+    // distance-left term is 0.9 / 0.5 as large, and the rest of the gain is the same.
+    const n = 5000;
+    const expectedAt = (classes: number): number => {
+      const classNames = Array.from({ length: classes }, (_, i) => `c${i}`);
+      const forecast = forecastCurve(curveOf(exactPoints(accuracyTruth), { classNames, task: "classification" }), {
+        draws: 20,
+        at: [n],
+      });
+      return forecast.projections[0].expected;
+    };
+    const { headroomWeight } = shippedCalibrations.pooled;
+    const left = 1 - accuracyTruth(largest);
+    expect(expectedAt(10) - expectedAt(2)).toBeCloseTo(headroomWeight * (0.9 - 0.5) * left * Math.log(n / largest), 3);
+  });
+
+  it("reads a forecast.json written before the factor q with the distance left whole", () => {
+    const { guessError: _g, ...earlier } = learned.continuation as NonNullable<typeof learned.continuation>;
+    const stored = forecastCurves({ ...learned, continuation: earlier }) as ForecastCurves;
+    const now = forecastCurves(learned) as ForecastCurves;
+    const { headroomWeight } = shippedCalibrations.pooled;
+    const left = 1 - now.expectedAt(largest);
+    expect(stored.expectedAt(5000) - now.expectedAt(5000)).toBeCloseTo(
+      headroomWeight * 0.5 * left * Math.log(5000 / largest),
+      3,
+    );
   });
 
   it("uses the continuation learned from the curve's own learner where the corpus has it, else the pooled one", () => {
@@ -702,10 +737,11 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
       gainSpread: 0,
       smallestSize: 10,
       best: 1,
+      guessError: 0.75,
     };
     const model = (n: number): number => 0.5 + 0.1 * Math.log(n); // chord = slope = 0.1 per unit of ln n
     expect(continuedGain(continuation, model, 100, 100)).toBeCloseTo(0, 12);
-    const perLog = 0.5 * 0.1 + 0.25 * 0.1 + 0.1 * (1 - model(100));
+    const perLog = 0.5 * 0.1 + 0.25 * 0.1 + 0.1 * 0.75 * (1 - model(100));
     expect(continuedGain(continuation, model, 100, 100 * Math.E ** 2)).toBeCloseTo(2 * perLog, 6);
   });
 });

@@ -38,6 +38,12 @@ describe("learnedForecastText", () => {
     );
   });
 
+  it("says how the distance left was counted, and nothing of it for an earlier file", () => {
+    const text = learnedForecastText(forecastWith({ ...base, guessError: 0.75, learnedFrom: null })) as string;
+    expect(text).toContain("the distance left to the metric's best value counted by 0.75 (one minus one over");
+    expect(learnedForecastText(forecastWith({ ...base, learnedFrom: null }))).not.toContain("counted by");
+  });
+
   it("says how far the learned gain's own error widens the draws", () => {
     const text = learnedForecastText(
       forecastWith({ ...base, spread: 0, gainSpread: 0.01, learnedFrom: null }),

@@ -36,6 +36,20 @@ const forecastSchema = z.object({
       fits: z.array(z.object({ family: z.string(), weight: finite, parameters: z.array(finite) })),
     })
     .optional(),
+  continuation: z
+    .object({
+      ownWeight: finite,
+      chordWeight: finite,
+      slopeWeight: finite,
+      headroomWeight: finite,
+      spread: finite.nonnegative(),
+      gainSpread: finite.nonnegative().optional(),
+      learnedFrom: z.string().nullable().optional(),
+      smallestSize: z.number().positive(),
+      best: finite.nullable(),
+      guessError: z.number().gt(0).lte(1).optional(),
+    })
+    .optional(),
 });
 
 export function readForecast(file: string): ForecastFile {

@@ -434,6 +434,22 @@ describe("bad input gives one line, its exit code, no stack trace and no output"
     expect(existsSync(page)).toBe(true);
   });
 
+  it("refuses a forecast whose learned continuation is not numbers, naming the key", async () => {
+    const forecast = JSON.parse(readFileSync(path("forecast.json"), "utf8")) as {
+      continuation: Record<string, unknown>;
+    };
+    forecast.continuation.guessError = "half";
+    writeFileSync(path("bad-continuation-forecast.json"), JSON.stringify(forecast));
+    const c = capture();
+    const page = path("bad-continuation-report.html");
+    const argv = ["report", "--curve", path("curve.json"), "--forecast", path("bad-continuation-forecast.json")];
+    expect(await run([...argv, "--out", page], c.io)).toBe(ExitCode.data);
+    expect(c.stderr()).toBe(
+      `headroom: ${path("bad-continuation-forecast.json")}: continuation.guessError: Invalid input: expected number, received string\n`,
+    );
+    expect(existsSync(page)).toBe(false);
+  });
+
   it("prints the stack trace only with --debug", async () => {
     const c = capture();
     expect(await run(["--debug", ...measure("nan.csv")], c.io)).toBe(ExitCode.data);

@@ -208,6 +208,10 @@ export const message = {
   targetOutsideRange: (target: number, metric: string, range: readonly [number, number]) =>
     `${target} is outside the ${metric} range [${range[0]}, ${range[1]}]${range[1] === 1 ? " (give accuracy as a fraction, e.g. 0.9)" : ""}`,
   testSizeNotWhole: (testSize: number) => `must be a whole number of at least 1, not ${testSize}`,
+  classesNotWhole: (classes: number) => `must be a whole number of at least 2, not ${classes}`,
+  classesOfNumericCurve: () => `is for a classification curve; this curve has a numeric target`,
+  classesDiffer: (given: number, recorded: number) =>
+    `is ${given}, but the curve records ${recorded} classes; leave it out for a curve.json`,
   // A curve given to the forecast.
   curveNoPoints: () => `forecast: the curve has no points`,
   metricRangeNotIncreasing: (range: readonly number[]) =>

@@ -71,6 +71,13 @@ export interface ForecastOptions {
    */
   testSize?: number;
   /**
+   * Classes of a classification curve that does not record them (a curve read from CSV): how the
+   * learned continuation counts the distance left (1 − 1/K, `guessError`). A curve.json records its
+   * classes; a different number is refused.
+   * @default the curve's `classNames`; none recorded: counted as for two classes
+   */
+  classes?: number;
+  /**
    * The continuation learned from the corpus of measured curves (`gainCorrection.ts`); the corpus
    * evaluation passes one learned without the data set it forecasts; null turns it off (each family
    * extrapolates by its own formula, as with `family`).
@@ -90,6 +97,8 @@ export interface ResolvedForecastOptions {
   confidence: number;
   testSize: number;
   calibration: GainCalibration | null;
+  /** The factor of the distance left in the continuation (`guessError`, or 1 − 1/`classes`). */
+  guessError: number;
 }
 
 /** Multiples of the data set's rows projected to by default. */
@@ -153,7 +162,19 @@ export function resolveForecastOptions(curve: CurveFile, options: ForecastOption
       : options.calibration === undefined
         ? calibrationFor(shippedCalibrations, curve.learner)
         : options.calibration;
-  return { at, level, seed, draws, family, target, confidence, testSize, calibration };
+  const classes = options.classes;
+  if (classes !== undefined) {
+    if (!(Number.isInteger(classes) && classes >= 2)) {
+      throw new UsageError(message.classesNotWhole(classes), { option: "classes" });
+    }
+    if (curve.task === "regression") throw new UsageError(message.classesOfNumericCurve(), { option: "classes" });
+    const recorded = curve.classNames?.length ?? 0;
+    if (recorded > 0 && recorded !== classes) {
+      throw new UsageError(message.classesDiffer(classes, recorded), { option: "classes" });
+    }
+  }
+  const factor = classes === undefined ? guessError(curve) : 1 - 1 / classes;
+  return { at, level, seed, draws, family, target, confidence, testSize, calibration, guessError: factor };
 }
 
 /** The curve family named by the `family` option; throws UsageError naming the known ones. */
@@ -224,7 +245,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
   const continuation: Continuation | null =
     calibration === null
       ? null
-      : continuationFor(calibration, smallestMeasured, best === undefined ? null : sign * best, guessError(curve));
+      : continuationFor(calibration, smallestMeasured, best === undefined ? null : sign * best, resolved.guessError);
   const fits: WeightedFit[] = families.map((f) => ({
     family: f.family,
     weight: f.weight,

@@ -1,6 +1,6 @@
 /**
  * `headroom forecast`'s options, through the in-process command line: --family, --target,
- * --confidence and --test-size reach forecast.json, the text summary labels both intervals, and bad
+ * --confidence, --test-size and --classes reach forecast.json, the text summary labels both intervals, and bad
  * values give one line and the usage exit code.
  */
 import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
@@ -9,6 +9,7 @@ import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { run } from "../../src/cli/program.js";
 import { ExitCode } from "../../src/errors.js";
+import { shippedCalibrations } from "../../src/forecast/gainCorrection.js";
 import { capture } from "../helpers/captureIo.js";
 
 const dir = mkdtempSync(join(tmpdir(), "headroom-forecast-options-"));
@@ -63,7 +64,51 @@ describe("headroom forecast options", () => {
     expect(forecast.warnings.join("\n")).toMatch(/The curve does not say how large its test folds were/);
   });
 
+  it("--classes counts the distance left of a CSV curve by 1 − 1/K", async () => {
+    const expectedAt = async (extra: string[]): Promise<number> => {
+      const c = capture();
+      expect(await run(["forecast", curveFile, "--at", "1600", "--json", ...extra], c.io)).toBe(ExitCode.ok);
+      const forecast = JSON.parse(c.stdout());
+      expect(forecast.continuation.guessError).toBeCloseTo(extra.length === 0 ? 0.5 : 1 - 1 / Number(extra[1]), 12);
+      return forecast.projections[0].expected;
+    };
+    // Only the distance-left term changes: h · (0.9 − 0.5) · (1 − 0.8820) · ln 2 more with ten classes
+    // (pow3 at L = 800 is 0.92 − 1.5 · 800^(−0.55) = 0.8820).
+    const { headroomWeight } = shippedCalibrations.pooled;
+    const left = 1 - (0.92 - 1.5 * Math.pow(800, -0.55));
+    expect((await expectedAt(["--classes", "10"])) - (await expectedAt([]))).toBeCloseTo(
+      headroomWeight * 0.4 * left * Math.log(2),
+      6,
+    );
+    expect(await expectedAt(["--classes", "2"])).toBeCloseTo(await expectedAt([]), 12);
+  });
+
+  it("--classes is refused for a curve.json recording another number of classes, or a numeric target", async () => {
+    const json = (overrides: Record<string, unknown>): string => {
+      const file = join(dir, `curve-${Object.keys(overrides).join("-")}.json`);
+      const points = [25, 50, 100, 200, 400, 800].map((n) => ({
+        trainingSize: n,
+        scores: [0.92 - 1.5 * Math.pow(n, -0.55)],
+      }));
+      const curve = { kind: "headroom-curve", version: 1, metric: "accuracy", higherIsBetter: true, rows: 1000 };
+      writeFileSync(file, JSON.stringify({ ...curve, metricRange: [0, 1], points, ...overrides }));
+      return file;
+    };
+    const c = capture();
+    const threeClasses = json({ task: "classification", classNames: ["a", "b", "c"] });
+    expect(await run(["forecast", threeClasses, "--classes", "4"], c.io)).toBe(ExitCode.usage);
+    expect(c.stderr()).toBe(
+      "headroom: --classes: is 4, but the curve records 3 classes; leave it out for a curve.json\n",
+    );
+    const d = capture();
+    expect(await run(["forecast", json({ task: "regression" }), "--classes", "3"], d.io)).toBe(ExitCode.usage);
+    expect(d.stderr()).toBe("headroom: --classes: is for a classification curve; this curve has a numeric target\n");
+    // The number it records is accepted.
+    expect(await run(["forecast", threeClasses, "--classes", "3", "--quiet"], capture().io)).toBe(ExitCode.ok);
+  });
+
   it.each([
+    [["--classes", "1"], /^headroom: --classes: '1' is not a whole number of at least 2$/m],
     [
       ["--family", "pow9"],
       /^headroom: --family: unknown name .pow9. \(known: pow3, pow4, mmf4, wbl4, exp3, ilog2, last\)\n$/,

@@ -23,6 +23,10 @@ export function forecastCommand(io: CliIo): Command {
     .option("--target <score>", "a score to reach: also report the smallest training size reaching it")
     .option("--confidence <p>", "probability with which --target should be reached (default 0.8)")
     .option("--test-size <rows>", "test rows behind the single-model interval (default: the data set's rows)")
+    .option(
+      "--classes <k>",
+      "classes of a classification curve read from CSV (curve.json records them); the forecast counts more of the distance left to the best score as winnable with more classes",
+    )
     .option("--json", "print forecast.json to standard output")
     .option("--out <file>", "where to write forecast.json")
     .option("--quiet", "print no summary and no warnings (they stay in forecast.json)")
@@ -41,6 +45,7 @@ export function forecastCommand(io: CliIo): Command {
         target: optionalNumber("--target", options.target as string | undefined),
         confidence: optionalProbability("--confidence", options.confidence as string | undefined),
         testSize: optionalInteger("--test-size", options.testSize as string | undefined, 1),
+        classes: optionalInteger("--classes", options.classes as string | undefined, 2),
       });
       const json = toJson(forecast);
       if (typeof options.out === "string") writeFileAtomic(options.out, json, [curveFile]);

@@ -53,6 +53,16 @@ export const corpusDataSets: CorpusDataSet[] = [
   ...["diabetes", "cpu", "randhie", "boston", "servo", "quakes", "nlschools", "chickweight"].map(regression),
 ];
 
+/**
+ * Held-out data sets (fixtures/forecast-holdout): measured the same way, but never learned from, so
+ * that the shipped continuation can be checked on data it has not seen (evaluate-corpus.ts --corpus
+ * fixtures/forecast-holdout --shipped). Chosen after the continuation was: four of Breiman's (1996)
+ * generated populations from R's mlbench (3,000 rows each, a fixed seed) and R's Titanic table.
+ */
+export const holdoutDataSets: CorpusDataSet[] = ["twonorm", "ringnorm", "threenorm", "waveform", "titanic"].map(
+  classification,
+);
+
 /** One data set measured with one learner. */
 export interface CorpusFile {
   kind: "headroom-forecast-corpus";

@@ -2,6 +2,7 @@
 """Writes the open data sets of the forecast corpus as CSV files (features, then `class` or `target`).
 
     /usr/bin/python3 scripts/forecast-corpus/export_data.py OUT_DIR
+    /usr/bin/python3 scripts/forecast-corpus/export_data.py --holdout OUT_DIR   # the held-out sets
 
 Sources, all Debian 12 packages (apt-get install python3-sklearn python3-scipy python3-statsmodels
 weka r-base-core r-cran-mlbench r-cran-mass): scikit-learn's bundled data sets, Weka's example ARFF
@@ -106,6 +107,18 @@ R_SETS = {
 }
 
 
+# Held out: never learned from (corpus.ts, holdoutDataSets). Breiman's generated populations (Breiman
+# 1996, "Bias, variance, and arcing classifiers"), 3,000 rows each from a fixed seed, and R's Titanic
+# table, one row per passenger.
+HOLDOUT_R_SETS = {
+    "twonorm": ("{library(mlbench); set.seed(20261203); p <- mlbench.twonorm(3000, d=20); data.frame(p$x, class=p$classes)}", "class", "class", []),
+    "ringnorm": ("{library(mlbench); set.seed(20261204); p <- mlbench.ringnorm(3000, d=20); data.frame(p$x, class=p$classes)}", "class", "class", []),
+    "threenorm": ("{library(mlbench); set.seed(20261205); p <- mlbench.threenorm(3000, d=20); data.frame(p$x, class=p$classes)}", "class", "class", []),
+    "waveform": ("{library(mlbench); set.seed(20261206); p <- mlbench.waveform(3000); data.frame(p$x, class=p$classes)}", "class", "class", []),
+    "titanic": ("{t <- as.data.frame(Titanic); t[rep(seq_len(nrow(t)), t$Freq), c('Class', 'Sex', 'Age', 'Survived')]}", "Survived", "class", []),
+}
+
+
 def r_set(out, name, expression, label_column, label, drop):
     # Features first, then the label, written by R itself (factors as their level text).
     code = (
@@ -137,5 +150,14 @@ def main(out):
         r_set(out, name, expression, label_column, label, drop)
 
 
+def main_holdout(out):
+    Path(out).mkdir(parents=True, exist_ok=True)
+    for name, (expression, label_column, label, drop) in HOLDOUT_R_SETS.items():
+        r_set(out, name, expression, label_column, label, drop)
+
+
 if __name__ == "__main__":
-    main(sys.argv[1])
+    if sys.argv[1] == "--holdout":
+        main_holdout(sys.argv[2])
+    else:
+        main(sys.argv[1])

@@ -4,8 +4,10 @@
  *
  *     /usr/bin/python3 scripts/forecast-corpus/export_data.py /tmp/corpus-data
  *     npx tsx scripts/forecast-corpus/measure-corpus.ts --data /tmp/corpus-data [--out fixtures/forecast-corpus]
- *                                                       [--only NAME,...] [--add-pilots]
+ *                                                       [--only NAME,...] [--add-pilots] [--holdout]
  *
+ * With `--holdout`, the held-out data sets (corpus.ts, `holdoutDataSets`; export_data.py --holdout)
+ * go to fixtures/forecast-holdout instead.
  * For each data set and learner (classification: logistic regression and random forest, scored by
  * accuracy; numeric target: ridge regression and k-nearest neighbours, scored by R²), one file
  * `NAME--LEARNER.json.gz` holding:
@@ -41,7 +43,7 @@ import { findMetric, type ClassificationMetric, type RegressionMetric } from "..
 import { createLearner, createRegressionLearner } from "../../src/learners/registry.js";
 import { RandomStream } from "../../src/random.js";
 import { nestedRandomOrder, nestedStratifiedOrder } from "../../src/splitters/nestedSubsamples.js";
-import { corpusDataSets, type CorpusFile } from "./corpus.js";
+import { corpusDataSets, holdoutDataSets, type CorpusFile } from "./corpus.js";
 
 const argv = process.argv.slice(2);
 function option(name: string): string | undefined {
@@ -49,7 +51,8 @@ function option(name: string): string | undefined {
   return index >= 0 ? argv[index + 1] : undefined;
 }
 const dataDir = option("--data") ?? "/tmp/corpus-data";
-const outDir = option("--out") ?? "fixtures/forecast-corpus";
+const holdout = argv.includes("--holdout");
+const outDir = option("--out") ?? (holdout ? "fixtures/forecast-holdout" : "fixtures/forecast-corpus");
 const only = option("--only")?.split(",");
 const addPilots = argv.includes("--add-pilots");
 mkdirSync(outDir, { recursive: true });
@@ -117,7 +120,7 @@ function heldOutScore(
 const round = (v: number): number => Math.round(v * 1e5) / 1e5;
 const mean = (v: readonly number[]): number => v.reduce((s, x) => s + x, 0) / v.length;
 
-for (const spec of corpusDataSets) {
+for (const spec of holdout ? holdoutDataSets : corpusDataSets) {
   if (only !== undefined && !only.includes(spec.name)) continue;
   const regression = spec.task === "regression";
   let data = tableToDataset(readCsv(join(dataDir, `${spec.name}.csv`)), {

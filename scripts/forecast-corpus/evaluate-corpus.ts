@@ -4,8 +4,8 @@
  * calibration learned without its data set (fixtures/forecast-corpus/leave-one-out.json, written by
  * calibrate.ts --write), and compared with the truth measured on the whole data set.
  *
- *     npx tsx scripts/forecast-corpus/evaluate-corpus.ts [--shipped | --uncalibrated] [--only NAME,...]
- *                                                        [--json FILE]
+ *     npx tsx scripts/forecast-corpus/evaluate-corpus.ts [--corpus DIR] [--shipped | --uncalibrated]
+ *                                                        [--only NAME,...] [--json FILE]
  *
  * `--shipped` uses the shipped calibration for every data set (not a fair check on the corpus: each
  * data set then informs its own forecast; the fair check on the held-out data sets, `--corpus

@@ -8,6 +8,7 @@
  *
  * With `--holdout`, the held-out data sets (corpus.ts, `holdoutDataSets`; export_data.py --holdout)
  * go to fixtures/forecast-holdout instead.
+ *
  * For each data set and learner (classification: logistic regression and random forest, scored by
  * accuracy; numeric target: ridge regression and k-nearest neighbours, scored by R²), one file
  * `NAME--LEARNER.json.gz` holding:

@@ -57,11 +57,20 @@ export const corpusDataSets: CorpusDataSet[] = [
  * Held-out data sets (fixtures/forecast-holdout): measured the same way, but never learned from, so
  * that the shipped continuation can be checked on data it has not seen (evaluate-corpus.ts --corpus
  * fixtures/forecast-holdout --shipped). Chosen after the continuation was: four of Breiman's (1996)
- * generated populations from R's mlbench (3,000 rows each, a fixed seed) and R's Titanic table.
+ * generated populations from R's mlbench (3,000 rows each, a fixed seed), R's Titanic table, and four
+ * two-class data sets of R's kernlab and caret packages (spam, musk, cell segmentation, mdrr).
  */
-export const holdoutDataSets: CorpusDataSet[] = ["twonorm", "ringnorm", "threenorm", "waveform", "titanic"].map(
-  classification,
-);
+export const holdoutDataSets: CorpusDataSet[] = [
+  "twonorm",
+  "ringnorm",
+  "threenorm",
+  "waveform",
+  "titanic",
+  "spam",
+  "musk",
+  "cells",
+  "mdrr",
+].map(classification);
 
 /** One data set measured with one learner. */
 export interface CorpusFile {

@@ -108,14 +108,19 @@ R_SETS = {
 
 
 # Held out: never learned from (corpus.ts, holdoutDataSets). Breiman's generated populations (Breiman
-# 1996, "Bias, variance, and arcing classifiers"), 3,000 rows each from a fixed seed, and R's Titanic
-# table, one row per passenger.
+# 1996, "Bias, variance, and arcing classifiers"), 3,000 rows each from a fixed seed; R's Titanic
+# table, one row per passenger; and data sets of R's kernlab and caret packages (r-cran-kernlab,
+# r-cran-caret).
 HOLDOUT_R_SETS = {
     "twonorm": ("{library(mlbench); set.seed(20261203); p <- mlbench.twonorm(3000, d=20); data.frame(p$x, class=p$classes)}", "class", "class", []),
     "ringnorm": ("{library(mlbench); set.seed(20261204); p <- mlbench.ringnorm(3000, d=20); data.frame(p$x, class=p$classes)}", "class", "class", []),
     "threenorm": ("{library(mlbench); set.seed(20261205); p <- mlbench.threenorm(3000, d=20); data.frame(p$x, class=p$classes)}", "class", "class", []),
     "waveform": ("{library(mlbench); set.seed(20261206); p <- mlbench.waveform(3000); data.frame(p$x, class=p$classes)}", "class", "class", []),
     "titanic": ("{t <- as.data.frame(Titanic); t[rep(seq_len(nrow(t)), t$Freq), c('Class', 'Sex', 'Age', 'Survived')]}", "Survived", "class", []),
+    "spam": ("{library(kernlab); data(spam); spam}", "type", "class", []),
+    "musk": ("{library(kernlab); data(musk); musk}", "Class", "class", []),
+    "cells": ("{library(caret); data(segmentationData); segmentationData}", "Class", "class", ["Cell", "Case"]),
+    "mdrr": ("{library(caret); data(mdrr); data.frame(mdrrDescr, class=mdrrClass)}", "class", "class", []),
 }
 
 

@@ -1,16 +1,16 @@
 /**
  * The forecast on data sets it never learned from (fixtures/forecast-holdout: four of Breiman's
- * generated populations from R's mlbench and R's Titanic table, measured by headroom as the corpus
- * was; its README gives each origin). Each pilot curve is forecast by `forecastCurve` with the shipped
- * calibration, which was learned from fixtures/forecast-corpus only, and compared with the score
- * measured later on the whole data set. To keep the test short it forecasts the first pilot draw of
- * each data set and pilot size (`evaluate-corpus.ts --corpus fixtures/forecast-holdout --shipped`
- * runs them all, for the README).
+ * generated populations from R's mlbench, R's Titanic table, and four two-class data sets of R's
+ * kernlab and caret packages, measured by headroom as the corpus was; its README gives each origin).
+ * Each pilot curve is forecast by `forecastCurve` with the shipped calibration, which was learned from
+ * fixtures/forecast-corpus only, and compared with the score measured later on the whole data set. To
+ * keep the test short it forecasts the first pilot draw of each data set and pilot size
+ * (`evaluate-corpus.ts --corpus fixtures/forecast-holdout --shipped` runs them all, for the README).
  *
  * The limits are the project's targets for the forecast where it meets them here; where it does not
  * (README, "How far the forecast can be trusted"), today's figure on this subset plus a margin, so
- * that a change for the worse still fails: logistic regression adds 0.0067 to the pilot's own error
- * and over-forecasts the gain (ratio 1.50: ringnorm and Titanic gain less than forecast); the random
+ * that a change for the worse still fails: logistic regression adds 0.0090 to the pilot's own error,
+ * its worst data set (musk) is off by 0.068 and the random forest's (mdrr) by 0.055, and the random
  * forest's 80% intervals hold the later score 94% of the time, too wide.
  */
 import { describe, expect, it } from "vitest";
@@ -26,8 +26,8 @@ const LIMITS: Record<
   string,
   { addedError: number; worstDataSet: number; gainRatio: [number, number]; coverage: [number, number] }
 > = {
-  logistic: { addedError: 0.01, worstDataSet: 0.07, gainRatio: [0.85, 1.7], coverage: [0.75, 0.9] },
-  forest: { addedError: 0.005, worstDataSet: 0.05, gainRatio: [0.85, 1.15], coverage: [0.75, 0.97] },
+  logistic: { addedError: 0.012, worstDataSet: 0.08, gainRatio: [0.85, 1.15], coverage: [0.75, 0.9] },
+  forest: { addedError: 0.005, worstDataSet: 0.07, gainRatio: [0.85, 1.15], coverage: [0.75, 0.97] },
 };
 
 describe.each(["logistic", "forest"])("forecast of the held-out data sets' %s curves", (learner) => {
@@ -39,7 +39,7 @@ describe.each(["logistic", "forest"])("forecast of the held-out data sets' %s cu
 
   it("covers every held-out data set", () => {
     expect(new Set(cases.map((c) => c.dataSet))).toEqual(
-      new Set(["ringnorm", "threenorm", "titanic", "twonorm", "waveform"]),
+      new Set(["cells", "mdrr", "musk", "ringnorm", "spam", "threenorm", "titanic", "twonorm", "waveform"]),
     );
   });
 

@@ -251,24 +251,14 @@ function learnWeights(
     let left = 0;
     let slope = 0;
     for (const f of parts.families) {
-      const family = findCurveFamily(f.name);
-      const atLargest = family.model(p.largest, f.parameters);
-      const atSmallest = family.model(continuation.smallestSize, f.parameters);
-      anchor += f.weight * atLargest;
-      chord += (f.weight * (atLargest - atSmallest)) / Math.log(p.largest / continuation.smallestSize);
-      left +=
-        continuation.best === null
-          ? 0
-          : f.weight * continuation.guessError * Math.max(0, continuation.best - atLargest);
-      // The slope as continuedGain takes it: the gain with only s = 1, over one unit of ln n.
-      slope +=
-        f.weight *
-        continuedGain(
-          { ...continuation, slopeWeight: 1 },
-          (size) => family.model(size, f.parameters),
-          p.largest,
-          p.largest * Math.E,
-        );
+      const model = (size: number): number => findCurveFamily(f.name).model(size, f.parameters);
+      // Each term as continuedGain takes it: the gain with only that weight at 1, over one unit of ln n.
+      const term = (weight: "chordWeight" | "slopeWeight" | "headroomWeight"): number =>
+        continuedGain({ ...continuation, [weight]: 1 }, model, p.largest, p.largest * Math.E);
+      anchor += f.weight * model(p.largest);
+      chord += f.weight * term("chordWeight");
+      left += f.weight * term("headroomWeight");
+      slope += f.weight * term("slopeWeight");
     }
     const features = { chord, slope, headroom: left };
     const own = (size: number): number =>

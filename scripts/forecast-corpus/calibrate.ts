@@ -14,7 +14,8 @@
  *    all of them (the pooled one) and, for a per-learner variant, once from each learner's: the weights
  *    of the variant's terms by weighted least squares of truth − Σ w_f m_f(L) on the terms (each
  *    data set weighing the same), constrained so that the summed forecast gain equals the summed
- *    gain measured later (calibration in the large); then the spread (multiplier of the families'
+ *    gain measured later (calibration in the large), with, for a variant that has it, the slope's
+ *    reliability r chosen from a grid by the least weighted squared error of those fits; then the spread (multiplier of the families'
  *    extrapolation errors) by bisection, so that the 80% intervals hold the truth in 82% of the
  *    training cases. D's cases are forecast with that continuation.
  * 3. Prints the leave-one-data-set-out figures of each variant tried (spread 1), then the chosen
@@ -219,6 +220,11 @@ interface Variant {
   perLearner?: boolean;
   /** Whether the distance left counts by the factor q of the number of classes (`guessError`). */
   byClasses?: boolean;
+  /**
+   * The values of r tried for the slope's reliability L / (L + r) (`reliabilityOf`); absent: the
+   * slope and the distance left are taken whole.
+   */
+  reliabilitySizes?: number[];
 }
 
 /**
@@ -230,19 +236,25 @@ interface Variant {
 function learnWeights(
   train: readonly CorpusPilot[],
   variant: Variant,
-): { ownWeight: number; chordWeight: number; slopeWeight: number; headroomWeight: number } {
+  reliabilitySize: number | null,
+): {
+  weights: { ownWeight: number; chordWeight: number; slopeWeight: number; headroomWeight: number };
+  /** The fit's weighted sum of squared errors on `train`. */
+  squaredError: number;
+} {
   const k = variant.terms.length;
   const perDataSet = new Map<string, number>();
   for (const p of train) perDataSet.set(p.dataSet, (perDataSet.get(p.dataSet) ?? 0) + p.targets.length);
   const a = Matrix.zeros(k + 1, k + 1);
   const b = Matrix.zeros(k + 1, 1);
   let trueGain = 0;
+  let squaredTruth = 0;
   const featureSum = new Array<number>(k).fill(0);
   for (const p of train) {
     const parts = cache[keyOf(p)] as Parts;
     const continuation = continuationOf(
       p,
-      { ownWeight: 0, chordWeight: 0, slopeWeight: 0, headroomWeight: 0, spread: 1, gainSpread: 0 },
+      { ownWeight: 0, chordWeight: 0, slopeWeight: 0, headroomWeight: 0, spread: 1, gainSpread: 0, reliabilitySize },
       variant.byClasses === true,
     ) as Continuation;
     const weight = 1 / (perDataSet.get(p.dataSet) as number);
@@ -270,6 +282,7 @@ function learnWeights(
       const logRatio = Math.log(t.size / p.largest);
       const x = variant.terms.map((term) => (term === "own" ? own(t.size) : features[term] * logRatio));
       const y = parts.sign * t.truth - anchor;
+      squaredTruth += weight * y * y;
       for (let i = 0; i < k; i++) {
         b.set(i, 0, b.get(i, 0) + weight * x[i] * y);
         for (let j = 0; j < k; j++) a.set(i, j, a.get(i, j) + weight * x[i] * x[j]);
@@ -291,11 +304,20 @@ function learnWeights(
   const beta = solve(a.subMatrix(0, size - 1, 0, size - 1), b.subMatrix(0, size - 1, 0, 0)).getColumn(0);
   const weightOf = (term: Variant["terms"][number]): number =>
     variant.terms.includes(term) ? beta[variant.terms.indexOf(term)] : 0;
+  // Σ w (y − xβ)² = Σ w y² − 2 βᵀ(Σ w x y) + βᵀ(Σ w x xᵀ)β
+  let squaredError = squaredTruth;
+  for (let i = 0; i < k; i++) {
+    squaredError -= 2 * beta[i] * b.get(i, 0);
+    for (let j = 0; j < k; j++) squaredError += beta[i] * a.get(i, j) * beta[j];
+  }
   return {
-    ownWeight: weightOf("own"),
-    chordWeight: weightOf("chord"),
-    slopeWeight: weightOf("slope"),
-    headroomWeight: weightOf("headroom"),
+    weights: {
+      ownWeight: weightOf("own"),
+      chordWeight: weightOf("chord"),
+      slopeWeight: weightOf("slope"),
+      headroomWeight: weightOf("headroom"),
+    },
+    squaredError,
   };
 }
 
@@ -333,8 +355,13 @@ const gainSpreads = [0, 0.005, 0.01, 0.015];
  * 0.82, by bisection (coverage grows with it); of those pairs, the one whose coverage is most even
  * across pilot sizes (least squared distance from 0.82, each pilot size counting the same).
  */
-function learnCalibration(train: readonly CorpusPilot[], variant: Variant, learnSpread: boolean): GainCalibration {
-  const weights = learnWeights(train, variant);
+function learnCalibration(
+  train: readonly CorpusPilot[],
+  variant: Variant,
+  learnSpread: boolean,
+  reliabilitySize: number | null,
+): GainCalibration {
+  const weights = { ...learnWeights(train, variant, reliabilitySize).weights, reliabilitySize };
   if (!learnSpread) return { ...weights, spread: 1, gainSpread: 0 };
   let best: { calibration: GainCalibration; unevenness: number } | undefined;
   for (const gainSpread of gainSpreads) {
@@ -364,20 +391,34 @@ const corpusLearners = [...new Set(pilots.filter(learnable).map((p) => p.learner
 function learnSet(train: readonly CorpusPilot[], variant: Variant, learnSpread: boolean): CalibrationSet | null {
   if (variant.terms.length === 0) return null;
   const classificationCurves = train.filter(learnable);
+  const fitted: (readonly CorpusPilot[])[] =
+    variant.perLearner === true
+      ? corpusLearners.map((learner) => classificationCurves.filter((p) => p.learner === learner))
+      : [classificationCurves];
+  const reliabilitySize = chooseReliabilitySize(fitted, variant);
   const byLearner: Record<string, GainCalibration> = {};
   if (variant.perLearner === true) {
-    for (const learner of corpusLearners) {
-      byLearner[learner] = {
-        ...learnCalibration(
-          classificationCurves.filter((p) => p.learner === learner),
-          variant,
-          learnSpread,
-        ),
-        learner,
-      };
-    }
+    corpusLearners.forEach((learner, i) => {
+      byLearner[learner] = { ...learnCalibration(fitted[i], variant, learnSpread, reliabilitySize), learner };
+    });
   }
-  return { pooled: learnCalibration(classificationCurves, variant, learnSpread), byLearner };
+  return { pooled: learnCalibration(classificationCurves, variant, learnSpread, reliabilitySize), byLearner };
+}
+
+/**
+ * r of the slope's reliability (`reliabilityOf`): of the variant's values, the one whose fits (one per
+ * corpus learner for a per-learner variant, one pooled otherwise) leave the least summed weighted
+ * squared error on the training curves; one r for every learner, as the slope's sampling noise
+ * is a property of the pilot's size. Null for a variant without it.
+ */
+function chooseReliabilitySize(fitted: readonly (readonly CorpusPilot[])[], variant: Variant): number | null {
+  if (variant.reliabilitySizes === undefined) return null;
+  let best: { size: number; error: number } | undefined;
+  for (const size of variant.reliabilitySizes) {
+    const error = fitted.reduce((sum, train) => sum + learnWeights(train, variant, size).squaredError, 0);
+    if (best === undefined || error < best.error) best = { size, error };
+  }
+  return (best as { size: number }).size;
 }
 
 function results(pilot: CorpusPilot, set: CalibrationSet | null, variant: Variant): CaseResult[] {
@@ -429,6 +470,14 @@ const variants: Variant[] = [
     byClasses: true,
   },
   {
+    name: "slope × L/(L + r) + distance left × (1 − 1/K) × r/(L + r), calibrated in the large, per learner",
+    terms: ["slope", "headroom"],
+    constrained: true,
+    perLearner: true,
+    byClasses: true,
+    reliabilitySizes: [25, 50, 75, 100, 150, 200, 300, 500],
+  },
+  {
     name: "chord + slope + distance left, calibrated in the large",
     terms: ["chord", "slope", "headroom"],
     constrained: true,
@@ -446,7 +495,10 @@ const variants: Variant[] = [
   },
 ];
 const chosen = variants.find(
-  (v) => v.name === (option("--variant") ?? "slope + distance left × (1 − 1/K), calibrated in the large, per learner"),
+  (v) =>
+    v.name ===
+    (option("--variant") ??
+      "slope × L/(L + r) + distance left × (1 − 1/K) × r/(L + r), calibrated in the large, per learner"),
 ) as Variant;
 const groups: [string, (r: CaseResult) => boolean][] = [
   ["logistic", (r) => r.learner === "logistic"],
@@ -477,6 +529,7 @@ const round = (c: GainCalibration): GainCalibration => ({
   headroomWeight: Number(c.headroomWeight.toFixed(4)),
   spread: c.spread,
   gainSpread: c.gainSpread,
+  reliabilitySize: c.reliabilitySize,
   ...(c.learner === undefined ? {} : { learner: c.learner }),
 });
 const rounded: CalibrationSet = {

@@ -5,7 +5,7 @@
  * Learned from the 660 classification pilot curves (4070 pilot-to-target cases) of the
  * 23 classification data sets of fixtures/forecast-corpus (logistic regression and random
  * forest, accuracy), pilots of 50 to 800 rows, targets 2 to 16 times the pilot; variant
- * "slope + distance left × (1 − 1/K), calibrated in the large, per learner". Checked leave-one-data-set-out: see the README's forecast section.
+ * "slope × L/(L + r) + distance left × (1 − 1/K) × r/(L + r), calibrated in the large, per learner". Checked leave-one-data-set-out: see the README's forecast section.
  */
 import type { CalibrationSet } from "./gainCorrection.js";
 
@@ -13,28 +13,31 @@ export const corpusCalibration: CalibrationSet = {
   pooled: {
     ownWeight: 0,
     chordWeight: 0,
-    slopeWeight: 0.3073,
-    headroomWeight: 0.1372,
-    spread: 0,
-    gainSpread: 0.015,
+    slopeWeight: 0.7306,
+    headroomWeight: 0.2463,
+    spread: 0.5,
+    gainSpread: 0,
+    reliabilitySize: 100,
   },
   byLearner: {
     forest: {
       ownWeight: 0,
       chordWeight: 0,
-      slopeWeight: 0.3862,
-      headroomWeight: 0.142,
-      spread: 0,
-      gainSpread: 0.015,
+      slopeWeight: 0.9079,
+      headroomWeight: 0.2392,
+      spread: 0.7,
+      gainSpread: 0,
+      reliabilitySize: 100,
       learner: "forest",
     },
     logistic: {
       ownWeight: 0,
       chordWeight: 0,
-      slopeWeight: 0.189,
-      headroomWeight: 0.1481,
+      slopeWeight: 0.4691,
+      headroomWeight: 0.2772,
       spread: 0,
-      gainSpread: 0.01,
+      gainSpread: 0,
+      reliabilitySize: 100,
       learner: "logistic",
     },
   },

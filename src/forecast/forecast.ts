@@ -370,6 +370,7 @@ export function forecastCurve(measuredIn: CurveFile, options: ForecastOptions = 
       smallestSize: continuation.smallestSize,
       best: continuation.best === null ? null : sign * continuation.best + 0,
       guessError: continuation.guessError,
+      ...(continuation.reliabilitySize === null ? {} : { reliabilitySize: continuation.reliabilitySize }),
     };
   }
   if (curve.metricRange !== undefined) forecast.metricRange = curve.metricRange;

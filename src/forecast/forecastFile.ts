@@ -168,5 +168,11 @@ export interface ForecastFile {
      * `guessError`). Absent in earlier files, whose continuation took the distance whole (1).
      */
     guessError?: number;
+    /**
+     * c of the slope's reliability L / (L + c) (gainCorrection.ts, `reliabilityOf`), in the curve's
+     * size unit. Absent in earlier files, whose continuation took the slope and the distance left
+     * whole.
+     */
+    reliabilitySize?: number;
   };
 }

@@ -12,14 +12,15 @@
  *
  * What. Beyond L a draw (and the point forecast) continues from its family's value at L by
  *
- *     gain(n) = o · (m(n) − m(L)) + (c · chord + s · slope + h · q · (best − m(L))) · ln(n / L)
+ *     gain(n) = o · (m(n) − m(L)) + (c · chord + s · λ · slope + h · (1 − λ) · q · (best − m(L))) · ln(n / L)
  *
  * where m(n) − m(L) is the gain its family's own formula forecasts, chord = (m(L) − m(n₁)) / ln(L / n₁)
  * its average rise per unit of ln n over the measured range (n₁ the smallest measured size), slope
  * its rise per unit of ln n at L, and best − m(L) the distance left to the metric's best value
  * (accuracy 1, R² 1, an error 0), counted by q = 1 − 1/K for a curve of K classes (the error of a
  * guess among K equally likely classes; 1/2 for any other curve, as for two classes; see
- * `guessError`). The weights are a stacked regression (Wolpert 1992, "Stacked
+ * `guessError`), and λ = L / (L + r) the slope's reliability, which grows with the pilot (see
+ * `reliabilityOf`). The weights are a stacked regression (Wolpert 1992, "Stacked
  * generalization"; Breiman 1996, "Stacked regressions") fitted to the corpus's classification
  * curves by weighted least squares (each data set weighing the same), constrained so that the
  * summed forecast gain equals the summed gain measured later (calibration in the large: a least
@@ -57,6 +58,12 @@ export interface GainCalibration {
    * continuation is off by this times one standard normal (see `drawCurves`).
    */
   gainSpread: number;
+  /**
+   * r, in rows (the forecast restates a curve measured in whole runs in rows first): the slope's
+   * weight is multiplied by λ = L / (L + r) and the distance left's by 1 − λ, L the largest measured
+   * size (see `reliabilityOf`); null: both whole.
+   */
+  reliabilitySize: number | null;
   /** The learner whose corpus curves these were learned from; absent: every classification curve. */
   learner?: string;
 }
@@ -111,12 +118,17 @@ export interface Continuation {
   best: number | null;
   /** q: the factor of the distance left (`guessError`). */
   guessError: number;
+  /**
+   * r of `reliabilityOf`; null in forecast.json files written before it, whose continuation took the
+   * slope and the distance left whole.
+   */
+  reliabilitySize: number | null;
 }
 
 /** The numbers of a continuation that a calibration (or forecast.json's `continuation`) carries. */
 export type ContinuationWeights = Pick<
   GainCalibration,
-  "ownWeight" | "chordWeight" | "slopeWeight" | "headroomWeight" | "gainSpread"
+  "ownWeight" | "chordWeight" | "slopeWeight" | "headroomWeight" | "gainSpread" | "reliabilitySize"
 >;
 
 /**
@@ -130,12 +142,45 @@ export function continuationFor(
   best: number | null,
   guessError: number,
 ): Continuation {
-  const { ownWeight, chordWeight, slopeWeight, headroomWeight, gainSpread } = weights;
-  return { ownWeight, chordWeight, slopeWeight, headroomWeight, gainSpread, smallestSize, best, guessError };
+  const { ownWeight, chordWeight, slopeWeight, headroomWeight, gainSpread, reliabilitySize } = weights;
+  return {
+    ownWeight,
+    chordWeight,
+    slopeWeight,
+    headroomWeight,
+    gainSpread,
+    smallestSize,
+    best,
+    guessError,
+    reliabilitySize,
+  };
 }
 
 /** The calibrations shipped with headroom (learned from the whole corpus). */
 export const shippedCalibrations: CalibrationSet = corpusCalibration;
+
+/**
+ * λ = L / (L + r), the share of its weight that the slope at L gets in the continuation (the
+ * distance left gets 1 − λ of its own); 1 when r is null (forecast.json files written before it,
+ * which took both terms whole, the distance left too: the weights in them were learned so).
+ *
+ * Why. The slope of a pilot's curve at L is an estimate whose sampling error falls as the pilot
+ * grows (its variance about as 1/L: the pilot's rows, not the repeats, make it noisy), so a least
+ * squares fit that gives it one weight for every pilot size shrinks it by the noise of the smallest
+ * pilots (regression dilution). On the corpus the random forest's slope weight, learned separately
+ * for each pilot size, rose from 0.16 at 50 rows to 1.0 at 800 while the distance left's fell from
+ * 0.19 to 0; logistic regression's did the same more slowly. λ is the reliability ratio
+ * τ² / (τ² + σ²/L) of a measured slope whose sampling variance is σ²/L, τ² the variance of the true
+ * slopes across data sets, so r = σ²/τ² (the classical errors-in-variables correction, as in Fuller
+ * 1987, "Measurement error models"); 1 − λ gives the rest to the distance left, the prior the slope
+ * is shrunk toward. r is learned with the weights (scripts/forecast-corpus/calibrate.ts: of a grid,
+ * the value whose weighted least squares fits of both learners' curves leave the least squared
+ * error). It is in rows, as the corpus's curves are: `forecastCurve` restates a curve measured in
+ * whole runs in rows (`sizesInRows`) before this applies. A CSV curve's sizes are taken as rows.
+ */
+export function reliabilityOf(reliabilitySize: number | null, largestMeasured: number): number {
+  return reliabilitySize === null ? 1 : largestMeasured / (largestMeasured + reliabilitySize);
+}
 
 /** Step in ln n of the central difference that gives a family's slope at L. */
 const slopeStep = 0.01;
@@ -159,9 +204,14 @@ export function continuedGain(
       ? (atLargest - atSmallest) / Math.log(largestMeasured / continuation.smallestSize)
       : 0;
   const left = continuation.best === null ? 0 : continuation.guessError * Math.max(0, continuation.best - atLargest);
+  // Without c (files written before it) both terms are whole; with it they share λ and 1 − λ.
+  const trust = reliabilityOf(continuation.reliabilitySize, largestMeasured);
+  const distrust = continuation.reliabilitySize === null ? 1 : 1 - trust;
   return (
     continuation.ownWeight * (model(trainingSize) - atLargest) +
-    (continuation.chordWeight * chord + continuation.slopeWeight * slope + continuation.headroomWeight * left) *
+    (continuation.chordWeight * chord +
+      continuation.slopeWeight * trust * slope +
+      continuation.headroomWeight * distrust * left) *
       Math.log(trainingSize / largestMeasured)
   );
 }

@@ -48,6 +48,7 @@ const forecastSchema = z.object({
       smallestSize: z.number().positive(),
       best: finite.nullable(),
       guessError: z.number().gt(0).lte(1).optional(),
+      reliabilitySize: finite.nonnegative().optional(),
     })
     .optional(),
 });

@@ -110,7 +110,7 @@ export function forecastCurves(forecast: ForecastFile): ForecastCurves | undefin
     c === undefined
       ? null
       : continuationFor(
-          { ...c, gainSpread: c.gainSpread ?? 0 },
+          { ...c, gainSpread: c.gainSpread ?? 0, reliabilitySize: c.reliabilitySize ?? null },
           c.smallestSize,
           c.best === null ? null : sign * c.best,
           c.guessError ?? 1,

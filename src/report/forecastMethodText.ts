@@ -3,16 +3,20 @@
  * separate function so that the report's page builder only has to call it).
  */
 import type { ForecastFile } from "../forecast/forecastFile.js";
+import { reliabilityOf } from "../forecast/gainCorrection.js";
 
 /** Plain text (the caller escapes it), or undefined when the forecast used no learned continuation. */
 export function learnedForecastText(forecast: ForecastFile): string | undefined {
   const c = forecast.continuation;
   if (c === undefined) return undefined;
+  // The weights as this curve's continuation used them (gainCorrection.ts, `reliabilityOf`).
+  const reliabilitySize = c.reliabilitySize ?? null;
+  const trust = reliabilityOf(reliabilitySize, forecast.largestMeasuredSize);
   const terms = [
     [c.chordWeight, "its average rise per unit of ln n over the measured sizes"],
-    [c.slopeWeight, "its slope at L"],
+    [c.slopeWeight * trust, "its slope at L"],
     [
-      c.headroomWeight,
+      c.headroomWeight * (reliabilitySize === null ? 1 : 1 - trust),
       `the distance left to the metric's best value${c.best === null ? " (unknown for this metric, so left out)" : guessText(c.guessError)}`,
     ],
   ] as const;
@@ -25,7 +29,8 @@ export function learnedForecastText(forecast: ForecastFile): string | undefined 
   return (
     `Beyond the largest measured size L the forecast does not follow the families' own formulas: each drawn ` +
     `curve, and the expected score, continues from its value at L by ${own}a gain per unit of ln(n / L) of ` +
-    `${gain}; ${widthText(c.spread, c.gainSpread)}. These numbers were learned by ` +
+    `${gain}; ${widthText(c.spread, c.gainSpread)}.` +
+    `${reliabilityText(c.slopeWeight, c.headroomWeight, reliabilitySize, forecast.largestMeasuredSize)} These numbers were learned by ` +
     `stacked regression from a ` +
     `corpus of learning curves measured by this tool on open data sets (pilots of 50 to 800 rows; the score ` +
     `measured later on the whole data set at 2 to 16 times the pilot), ${learnedFromText(c.learnedFrom)}, ` +
@@ -43,6 +48,23 @@ function guessText(guessError: number | undefined): string {
     ` counted by ${Number(guessError.toFixed(3))} (one minus one over the number of classes, 1/2 when the ` +
     `curve has no classes: on the corpus, more data won back less of the distance left with two classes ` +
     `than with many)`
+  );
+}
+
+/** How the slope's and the distance left's weights depend on L; empty in earlier files. */
+function reliabilityText(
+  slopeWeight: number,
+  headroomWeight: number,
+  reliabilitySize: number | null,
+  largest: number,
+): string {
+  if (reliabilitySize === null) return "";
+  const n = (v: number): string => String(Number(v.toPrecision(4)));
+  return (
+    ` These two weights depend on L: the slope counts ${n(slopeWeight)} × L / (L + ${n(reliabilitySize)}) ` +
+    `and the distance left ${n(headroomWeight)} × ${n(reliabilitySize)} / (L + ${n(reliabilitySize)}), here ` +
+    `with L = ${n(largest)} (a pilot's slope is noisier the smaller the pilot, so the larger the pilot, the ` +
+    `more the forecast follows its slope).`
   );
 }
 

@@ -450,6 +450,25 @@ describe("bad input gives one line, its exit code, no stack trace and no output"
     expect(existsSync(page)).toBe(false);
   });
 
+  it("refuses a forecast whose slope reliability is negative, naming the key", async () => {
+    const forecast = JSON.parse(readFileSync(path("forecast.json"), "utf8")) as {
+      continuation: Record<string, unknown>;
+    };
+    // A negative r would make L / (L + r) exceed 1, or divide by zero at L = −r.
+    forecast.continuation.reliabilitySize = -100;
+    writeFileSync(path("bad-reliability-forecast.json"), JSON.stringify(forecast));
+    const c = capture();
+    const page = path("bad-reliability-report.html");
+    const argv = ["report", "--curve", path("curve.json"), "--forecast", path("bad-reliability-forecast.json")];
+    expect(await run([...argv, "--out", page], c.io)).toBe(ExitCode.data);
+    const [line, ...rest] = c.stderr().split("\n");
+    expect(line.startsWith(`headroom: ${path("bad-reliability-forecast.json")}: continuation.reliabilitySize: `)).toBe(
+      true,
+    );
+    expect(rest).toEqual([""]);
+    expect(existsSync(page)).toBe(false);
+  });
+
   it("prints the stack trace only with --debug", async () => {
     const c = capture();
     expect(await run(["--debug", ...measure("nan.csv")], c.io)).toBe(ExitCode.data);

@@ -9,7 +9,7 @@ import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { run } from "../../src/cli/program.js";
 import { ExitCode } from "../../src/errors.js";
-import { shippedCalibrations } from "../../src/forecast/gainCorrection.js";
+import { reliabilityOf, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
 import { capture } from "../helpers/captureIo.js";
 
 const dir = mkdtempSync(join(tmpdir(), "headroom-forecast-options-"));
@@ -44,10 +44,23 @@ describe("headroom forecast options", () => {
     const text = c.stdout();
     expect(text).toContain("80% interval (expected score)");
     expect(text).toContain("80% interval (one model, 250 test rows)");
-    // An exact curve still has a width beyond its largest size: the learned gain's own error. The
-    // expected score is pow3's at L = 800, 0.8820, plus the pooled continuation over ln 2:
-    // (s · 0.55 · 1.5 · 800^(−0.55) + h · 1/2 · 0.1180) · ln 2 = 0.0101 (a CSV curve has no classes).
-    expect(text).toMatch(/^1600\t2\.0\t0\.892\d\t\[0\.88\d+, 0\.90\d+\]\t\[0\.8\d+, 0\.9\d+\]$/m);
+    // The expected score is pow3's at L = 800, 0.8820, plus the pooled continuation over ln 2:
+    // (s · λ · 0.55 · 1.5 · 800^(−0.55) + h · (1 − λ) · 1/2 · 0.1180) · ln 2 with λ = 800 / (800 + r),
+    // 0.0105 (a CSV curve has no classes). The interval of the expected score holds it, and the one
+    // of a single model tested on 250 rows is wider by the test rows' binomial spread.
+    const row = /^1600\t2\.0\t(0\.\d+)\t\[(0\.\d+), (0\.\d+)\]\t\[(0\.\d+), (0\.\d+)\]$/m.exec(text);
+    const [expected, lower, upper, modelLower, modelUpper] = (row ?? []).slice(1).map(Number);
+    const { slopeWeight, headroomWeight, reliabilitySize } = shippedCalibrations.pooled;
+    const trust = reliabilityOf(reliabilitySize, 800);
+    const atLargest = 0.92 - 1.5 * Math.pow(800, -0.55);
+    const gain =
+      (slopeWeight * trust * 0.55 * 1.5 * Math.pow(800, -0.55) + headroomWeight * (1 - trust) * 0.5 * (1 - atLargest)) *
+      Math.log(2);
+    expect(expected).toBeCloseTo(atLargest + gain, 3);
+    expect(lower).toBeLessThanOrEqual(expected);
+    expect(upper).toBeGreaterThanOrEqual(expected);
+    expect(modelLower).toBeLessThan(lower - 0.01);
+    expect(modelUpper).toBeGreaterThan(upper + 0.01);
     expect(text).toMatch(/^families: pow3 \d+%/m);
     expect(text).toContain("target 0.88: expected score reaches it at training size 728");
     // The CSV does not say its folds: the assumption is a warning on stderr, not on stdout.
@@ -72,12 +85,13 @@ describe("headroom forecast options", () => {
       expect(forecast.continuation.guessError).toBeCloseTo(extra.length === 0 ? 0.5 : 1 - 1 / Number(extra[1]), 12);
       return forecast.projections[0].expected;
     };
-    // Only the distance-left term changes: h · (0.9 − 0.5) · (1 − 0.8820) · ln 2 more with ten classes
-    // (pow3 at L = 800 is 0.92 − 1.5 · 800^(−0.55) = 0.8820).
+    // Only the distance-left term changes: h · c/(800 + c) · (0.9 − 0.5) · (1 − 0.8820) · ln 2 more
+    // with ten classes (pow3 at L = 800 is 0.92 − 1.5 · 800^(−0.55) = 0.8820).
     const { headroomWeight } = shippedCalibrations.pooled;
+    const share = 1 - reliabilityOf(shippedCalibrations.pooled.reliabilitySize, 800);
     const left = 1 - (0.92 - 1.5 * Math.pow(800, -0.55));
     expect((await expectedAt(["--classes", "10"])) - (await expectedAt([]))).toBeCloseTo(
-      headroomWeight * 0.4 * left * Math.log(2),
+      headroomWeight * share * 0.4 * left * Math.log(2),
       6,
     );
     expect(await expectedAt(["--classes", "2"])).toBeCloseTo(await expectedAt([]), 12);

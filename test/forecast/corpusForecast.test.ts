@@ -29,12 +29,12 @@ const pilots = corpusPilots(readCorpus(corpusDir)).filter((p) => p.draw === 1);
  * added to the pilot's own overall, 0.01 from 100-row pilots, and no data set off by more than 0.05 on
  * average. Where the forecast does not meet one yet (the random forest's added error, and the worst
  * data set: README, "How far the forecast can be trusted"), the limit is today's figure on this
- * subset (forest 0.011 and 0.015 added; worst data set: logistic 0.084, forest 0.124) plus a margin,
- * so that a change for the worse still fails.
+ * subset (forest 0.0086 and 0.0112 added; worst data set: logistic 0.088, forest 0.106, both infert)
+ * plus a margin, so that a change for the worse still fails.
  */
 const LIMITS: Record<string, { overall: number; fromHundred: number; worstDataSet: number }> = {
   logistic: { overall: 0.005, fromHundred: 0.01, worstDataSet: 0.1 },
-  forest: { overall: 0.013, fromHundred: 0.017, worstDataSet: 0.14 },
+  forest: { overall: 0.011, fromHundred: 0.014, worstDataSet: 0.12 },
 };
 
 function casesOf(learner: string): CaseResult[] {

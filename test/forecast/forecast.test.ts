@@ -8,7 +8,7 @@ import {
   resolveForecastOptions,
   type ForecastOptions,
 } from "../../src/forecast/forecast.js";
-import { continuedGain, guessError, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
+import { continuedGain, guessError, reliabilityOf, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
 import { forecastCurves, type ForecastCurves } from "../../src/forecast/storedCurves.js";
 import { RandomStream } from "../../src/random.js";
 
@@ -616,10 +616,12 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
 
   it("follows the family up to the largest measured size, and the learned gain beyond it", () => {
     // On exact pow3 points pow3 takes nearly all the weight, so the expected score is pow3's value at
-    // L plus its continued gain written out by hand: o·(m(n) − m(L)) + (c·chord + s·slope +
-    // h·q·(1 − m(L)))·ln(n / L), with pow3's slope per unit of ln n at L, c·b·L^(−c), in closed form.
-    // The curve names no learner, so the pooled calibration applies, and no classes, so q = 1/2.
-    const { ownWeight, chordWeight, slopeWeight, headroomWeight } = shippedCalibrations.pooled;
+    // L plus its continued gain written out by hand: o·(m(n) − m(L)) + (c·chord + s·λ·slope +
+    // h·(1 − λ)·q·(1 − m(L)))·ln(n / L), with pow3's slope per unit of ln n at L, c·b·L^(−c), in
+    // closed form, and λ = L / (L + reliabilitySize). The curve names no learner, so the pooled
+    // calibration applies, and no classes, so q = 1/2.
+    const { ownWeight, chordWeight, slopeWeight, headroomWeight, reliabilitySize } = shippedCalibrations.pooled;
+    const trust = largest / (largest + (reliabilitySize as number));
     const m = accuracyTruth;
     const smallest = 25;
     const n = 5000;
@@ -628,7 +630,8 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
     const byHand =
       m(largest) +
       ownWeight * (m(n) - m(largest)) +
-      (chordWeight * chord + slopeWeight * slope + headroomWeight * 0.5 * (1 - m(largest))) * Math.log(n / largest);
+      (chordWeight * chord + slopeWeight * trust * slope + headroomWeight * (1 - trust) * 0.5 * (1 - m(largest))) *
+        Math.log(n / largest);
     const atFive = learned.projections.find((p) => p.trainingSize === n);
     expect(atFive?.expected).toBeCloseTo(byHand, 4);
     const band = learned.band.filter((b) => b.trainingSize <= largest);
@@ -663,21 +666,45 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
       });
       return forecast.projections[0].expected;
     };
-    const { headroomWeight } = shippedCalibrations.pooled;
+    const { headroomWeight, reliabilitySize } = shippedCalibrations.pooled;
+    const share = 1 - reliabilityOf(reliabilitySize, largest);
     const left = 1 - accuracyTruth(largest);
-    expect(expectedAt(10) - expectedAt(2)).toBeCloseTo(headroomWeight * (0.9 - 0.5) * left * Math.log(n / largest), 3);
+    expect(expectedAt(10) - expectedAt(2)).toBeCloseTo(
+      headroomWeight * share * (0.9 - 0.5) * left * Math.log(n / largest),
+      3,
+    );
   });
 
   it("reads a forecast.json written before the factor q with the distance left whole", () => {
     const { guessError: _g, ...earlier } = learned.continuation as NonNullable<typeof learned.continuation>;
     const stored = forecastCurves({ ...learned, continuation: earlier }) as ForecastCurves;
     const now = forecastCurves(learned) as ForecastCurves;
-    const { headroomWeight } = shippedCalibrations.pooled;
+    const { headroomWeight, reliabilitySize } = shippedCalibrations.pooled;
+    const share = 1 - reliabilityOf(reliabilitySize, largest);
     const left = 1 - now.expectedAt(largest);
     expect(stored.expectedAt(5000) - now.expectedAt(5000)).toBeCloseTo(
-      headroomWeight * 0.5 * left * Math.log(5000 / largest),
+      headroomWeight * share * 0.5 * left * Math.log(5000 / largest),
       3,
     );
+  });
+
+  it("reads a forecast.json written before the slope's reliability with the slope and the distance left whole", () => {
+    const { reliabilitySize: _c, ...earlier } = learned.continuation as NonNullable<typeof learned.continuation>;
+    const stored = forecastCurves({ ...learned, continuation: earlier }) as ForecastCurves;
+    const now = forecastCurves(learned) as ForecastCurves;
+    // The slope's part grows from s·λ·slope to s·slope, the distance left's from h·(1 − λ)·q·left to
+    // h·q·left: together s·slope·(1 − λ) + h·q·left·λ more per unit of ln(n / L). pow3 takes nearly
+    // all the weight on exact pow3 points, so slope and left are its own at L.
+    const { slopeWeight, headroomWeight, reliabilitySize } = shippedCalibrations.pooled;
+    const trust = reliabilityOf(reliabilitySize, largest);
+    const slope = 0.55 * 1.5 * Math.pow(largest, -0.55);
+    const left = 1 - accuracyTruth(largest);
+    expect(stored.expectedAt(5000) - now.expectedAt(5000)).toBeCloseTo(
+      (slopeWeight * slope * (1 - trust) + headroomWeight * 0.5 * left * trust) * Math.log(5000 / largest),
+      3,
+    );
+    expect(trust).toBeGreaterThan(0);
+    expect(trust).toBeLessThan(1);
   });
 
   it("uses the continuation learned from the curve's own learner where the corpus has it, else the pooled one", () => {
@@ -738,10 +765,19 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
       smallestSize: 10,
       best: 1,
       guessError: 0.75,
+      reliabilitySize: null,
     };
     const model = (n: number): number => 0.5 + 0.1 * Math.log(n); // chord = slope = 0.1 per unit of ln n
     expect(continuedGain(continuation, model, 100, 100)).toBeCloseTo(0, 12);
     const perLog = 0.5 * 0.1 + 0.25 * 0.1 + 0.1 * 0.75 * (1 - model(100));
     expect(continuedGain(continuation, model, 100, 100 * Math.E ** 2)).toBeCloseTo(2 * perLog, 6);
+    // With r = 300 and L = 100 the slope counts a quarter (λ = 100 / 400), the distance left three
+    // quarters; with L = 900, three quarters and a quarter. (A gentler curve, still below 1 at 900.)
+    const shrunk = { ...continuation, reliabilitySize: 300 };
+    const gentle = (n: number): number => 0.2 + 0.05 * Math.log(n); // chord = slope = 0.05
+    const shrunkPerLog = 0.5 * 0.05 + 0.25 * 0.25 * 0.05 + 0.1 * 0.75 * 0.75 * (1 - gentle(100));
+    expect(continuedGain(shrunk, gentle, 100, 100 * Math.E)).toBeCloseTo(shrunkPerLog, 6);
+    const largerPerLog = 0.5 * 0.05 + 0.25 * 0.75 * 0.05 + 0.1 * 0.75 * 0.25 * (1 - gentle(900));
+    expect(continuedGain(shrunk, gentle, 900, 900 * Math.E)).toBeCloseTo(largerPerLog, 6);
   });
 });

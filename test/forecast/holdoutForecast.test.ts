@@ -9,9 +9,9 @@
  *
  * The limits are the project's targets for the forecast where it meets them here; where it does not
  * (README, "How far the forecast can be trusted"), today's figure on this subset plus a margin, so
- * that a change for the worse still fails: logistic regression adds 0.0090 to the pilot's own error,
- * its worst data set (musk) is off by 0.068 and the random forest's (mdrr) by 0.055, and the random
- * forest's 80% intervals hold the later score 94% of the time, too wide.
+ * that a change for the worse still fails: logistic regression adds 0.0066 to the pilot's own error,
+ * its worst data set (musk) is off by 0.063 and the random forest's (musk) by 0.057, and the random
+ * forest's 80% intervals hold the later score 93% of the time, too wide.
  */
 import { describe, expect, it } from "vitest";
 import { calibrationFor, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
@@ -26,8 +26,8 @@ const LIMITS: Record<
   string,
   { addedError: number; worstDataSet: number; gainRatio: [number, number]; coverage: [number, number] }
 > = {
-  logistic: { addedError: 0.012, worstDataSet: 0.08, gainRatio: [0.85, 1.15], coverage: [0.75, 0.9] },
-  forest: { addedError: 0.005, worstDataSet: 0.07, gainRatio: [0.85, 1.15], coverage: [0.75, 0.97] },
+  logistic: { addedError: 0.009, worstDataSet: 0.075, gainRatio: [0.85, 1.15], coverage: [0.75, 0.9] },
+  forest: { addedError: 0.005, worstDataSet: 0.07, gainRatio: [0.85, 1.15], coverage: [0.75, 0.95] },
 };
 
 describe.each(["logistic", "forest"])("forecast of the held-out data sets' %s curves", (learner) => {

@@ -6,8 +6,8 @@ import { describe, expect, it } from "vitest";
 import type { ForecastFile } from "../../src/forecast/forecastFile.js";
 import { learnedForecastText } from "../../src/report/forecastMethodText.js";
 
-function forecastWith(continuation: ForecastFile["continuation"]): ForecastFile {
-  return { continuation } as ForecastFile;
+function forecastWith(continuation: ForecastFile["continuation"], largestMeasuredSize = 800): ForecastFile {
+  return { continuation, largestMeasuredSize } as ForecastFile;
 }
 
 const base = {
@@ -42,6 +42,20 @@ describe("learnedForecastText", () => {
     const text = learnedForecastText(forecastWith({ ...base, guessError: 0.75, learnedFrom: null })) as string;
     expect(text).toContain("the distance left to the metric's best value counted by 0.75 (one minus one over");
     expect(learnedForecastText(forecastWith({ ...base, learnedFrom: null }))).not.toContain("counted by");
+  });
+
+  it("gives the slope's and the distance left's weights at this curve's L, and how they depend on L", () => {
+    // c = 200, L = 800: the slope counts 0.5568 × 0.8 = 0.445, the distance left 0.0602 × 0.2 = 0.012.
+    const text = learnedForecastText(forecastWith({ ...base, reliabilitySize: 200, learnedFrom: null })) as string;
+    expect(text).toContain("0.445 × its slope at L + 0.012 × the distance left");
+    expect(text).toContain(
+      "the slope counts 0.5568 × L / (L + 200) and the distance left 0.0602 × 200 / (L + 200), here with L = 800 (",
+    );
+    // At L = 200 they share the weight evenly.
+    const small = learnedForecastText(forecastWith({ ...base, reliabilitySize: 200, learnedFrom: null }, 200));
+    expect(small).toContain("0.278 × its slope at L + 0.030 × the distance left");
+    // A file written before it took both whole, and says nothing of it.
+    expect(learnedForecastText(forecastWith({ ...base, learnedFrom: null }))).not.toContain("L / (L +");
   });
 
   it("says how far the learned gain's own error widens the draws", () => {

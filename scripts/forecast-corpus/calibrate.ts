@@ -15,9 +15,10 @@
  *    of the variant's terms by weighted least squares of truth − Σ w_f m_f(L) on the terms (each
  *    data set weighing the same), constrained so that the summed forecast gain equals the summed
  *    gain measured later (calibration in the large), with, for a variant that has it, the slope's
- *    reliability r chosen from a grid by the least weighted squared error of those fits; then the spread (multiplier of the families'
- *    extrapolation errors) by bisection, so that the 80% intervals hold the truth in 82% of the
- *    training cases. D's cases are forecast with that continuation.
+ *    reliability r chosen from a grid by the least weighted squared error of those fits; then the
+ *    spread (multiplier of the families' extrapolation errors) by bisection, so that the 80%
+ *    intervals hold the truth in 82% of the training cases. D's cases are forecast with that
+ *    continuation.
  * 3. Prints the leave-one-data-set-out figures of each variant tried (spread 1), then the chosen
  *    one's tables (`--variant NAME` chooses another).
  * 4. With `--write`: the calibrations learned from every data set go to

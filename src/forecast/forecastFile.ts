@@ -169,9 +169,8 @@ export interface ForecastFile {
      */
     guessError?: number;
     /**
-     * c of the slope's reliability L / (L + c) (gainCorrection.ts, `reliabilityOf`), in the curve's
-     * size unit. Absent in earlier files, whose continuation took the slope and the distance left
-     * whole.
+     * r of the slope's reliability L / (L + r) (gainCorrection.ts, `reliabilityOf`), in rows. Absent
+     * in earlier files, whose continuation took the slope and the distance left whole.
      */
     reliabilitySize?: number;
   };

@@ -204,7 +204,7 @@ export function continuedGain(
       ? (atLargest - atSmallest) / Math.log(largestMeasured / continuation.smallestSize)
       : 0;
   const left = continuation.best === null ? 0 : continuation.guessError * Math.max(0, continuation.best - atLargest);
-  // Without c (files written before it) both terms are whole; with it they share λ and 1 − λ.
+  // Without r (files written before it) both terms are whole; with it they take λ and 1 − λ.
   const trust = reliabilityOf(continuation.reliabilitySize, largestMeasured);
   const distrust = continuation.reliabilitySize === null ? 1 : 1 - trust;
   return (

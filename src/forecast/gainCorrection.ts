@@ -182,6 +182,11 @@ export function reliabilityOf(reliabilitySize: number | null, largestMeasured: n
   return reliabilitySize === null ? 1 : largestMeasured / (largestMeasured + reliabilitySize);
 }
 
+/** The share of its weight the distance left gets: 1 − λ, or 1 when r is null (`reliabilityOf`). */
+export function distanceLeftShare(reliabilitySize: number | null, largestMeasured: number): number {
+  return reliabilitySize === null ? 1 : 1 - reliabilityOf(reliabilitySize, largestMeasured);
+}
+
 /** Step in ln n of the central difference that gives a family's slope at L. */
 const slopeStep = 0.01;
 
@@ -204,14 +209,13 @@ export function continuedGain(
       ? (atLargest - atSmallest) / Math.log(largestMeasured / continuation.smallestSize)
       : 0;
   const left = continuation.best === null ? 0 : continuation.guessError * Math.max(0, continuation.best - atLargest);
-  // Without r (files written before it) both terms are whole; with it they take λ and 1 − λ.
-  const trust = reliabilityOf(continuation.reliabilitySize, largestMeasured);
-  const distrust = continuation.reliabilitySize === null ? 1 : 1 - trust;
+  const slopeShare = reliabilityOf(continuation.reliabilitySize, largestMeasured);
+  const leftShare = distanceLeftShare(continuation.reliabilitySize, largestMeasured);
   return (
     continuation.ownWeight * (model(trainingSize) - atLargest) +
     (continuation.chordWeight * chord +
-      continuation.slopeWeight * trust * slope +
-      continuation.headroomWeight * distrust * left) *
+      continuation.slopeWeight * slopeShare * slope +
+      continuation.headroomWeight * leftShare * left) *
       Math.log(trainingSize / largestMeasured)
   );
 }

@@ -3,7 +3,7 @@
  * separate function so that the report's page builder only has to call it).
  */
 import type { ForecastFile } from "../forecast/forecastFile.js";
-import { reliabilityOf } from "../forecast/gainCorrection.js";
+import { distanceLeftShare, reliabilityOf } from "../forecast/gainCorrection.js";
 
 /** Plain text (the caller escapes it), or undefined when the forecast used no learned continuation. */
 export function learnedForecastText(forecast: ForecastFile): string | undefined {
@@ -11,12 +11,12 @@ export function learnedForecastText(forecast: ForecastFile): string | undefined 
   if (c === undefined) return undefined;
   // The weights as this curve's continuation used them (gainCorrection.ts, `reliabilityOf`).
   const reliabilitySize = c.reliabilitySize ?? null;
-  const trust = reliabilityOf(reliabilitySize, forecast.largestMeasuredSize);
+  const largest = forecast.largestMeasuredSize;
   const terms = [
     [c.chordWeight, "its average rise per unit of ln n over the measured sizes"],
-    [c.slopeWeight * trust, "its slope at L"],
+    [c.slopeWeight * reliabilityOf(reliabilitySize, largest), "its slope at L"],
     [
-      c.headroomWeight * (reliabilitySize === null ? 1 : 1 - trust),
+      c.headroomWeight * distanceLeftShare(reliabilitySize, largest),
       `the distance left to the metric's best value${c.best === null ? " (unknown for this metric, so left out)" : guessText(c.guessError)}`,
     ],
   ] as const;
@@ -30,7 +30,7 @@ export function learnedForecastText(forecast: ForecastFile): string | undefined 
     `Beyond the largest measured size L the forecast does not follow the families' own formulas: each drawn ` +
     `curve, and the expected score, continues from its value at L by ${own}a gain per unit of ln(n / L) of ` +
     `${gain}; ${widthText(c.spread, c.gainSpread)}.` +
-    `${reliabilityText(c.slopeWeight, c.headroomWeight, reliabilitySize, forecast.largestMeasuredSize)} These numbers were learned by ` +
+    `${reliabilityText(c.slopeWeight, c.headroomWeight, reliabilitySize, largest)} These numbers were learned by ` +
     `stacked regression from a ` +
     `corpus of learning curves measured by this tool on open data sets (pilots of 50 to 800 rows; the score ` +
     `measured later on the whole data set at 2 to 16 times the pilot), ${learnedFromText(c.learnedFrom)}, ` +

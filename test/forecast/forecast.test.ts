@@ -11,6 +11,8 @@ import {
 import { continuedGain, guessError, reliabilityOf, shippedCalibrations } from "../../src/forecast/gainCorrection.js";
 import { forecastCurves, type ForecastCurves } from "../../src/forecast/storedCurves.js";
 import { RandomStream } from "../../src/random.js";
+import { r2 } from "../../src/curve/metrics.js";
+import { foldR2Bias } from "../../src/forecast/forecastWarnings.js";
 
 /**
  * The forecast with each family extrapolating by its own formula (no continuation learned from the
@@ -779,5 +781,43 @@ describe("forecastCurve's continuation learned from the corpus (gainCorrection.t
     expect(continuedGain(shrunk, gentle, 100, 100 * Math.E)).toBeCloseTo(shrunkPerLog, 6);
     const largerPerLog = 0.5 * 0.05 + 0.25 * 0.75 * 0.05 + 0.1 * 0.75 * 0.25 * (1 - gentle(900));
     expect(continuedGain(shrunk, gentle, 900, 900 * Math.E)).toBeCloseTo(largerPerLog, 6);
+  });
+});
+
+describe("R² read on small test folds (foldR2Bias)", () => {
+  it("matches a simulation: R² per fold of 10 rows reads low by 3 (1 − R²) / 10 of the value measured", () => {
+    // Folds of m = 10 normal targets, predictions off by an independent normal error of variance
+    // 1/2, so a large test set would score R² = 1/2. Each fold is scored as r2_score scores it,
+    // around its own mean; the chi-square argument in foldR2Bias says they average
+    // 1 − (1/2)·10/7 = 0.2857, and that 3 (1 − that) / 10 recovers the 0.2143 they read low.
+    const random = new RandomStream(20261203, 1);
+    const m = 10;
+    const folds = 200000; // standard error of the mean about 0.0013
+    let total = 0;
+    for (let f = 0; f < folds; f++) {
+      const y = Float64Array.from({ length: m }, () => random.normal());
+      const predicted = y.map((v) => v + Math.SQRT1_2 * random.normal());
+      total += r2.score(y, predicted);
+    }
+    const measured = total / folds;
+    expect(measured).toBeCloseTo(1 - 0.5 * (m / (m - 3)), 2);
+    expect(foldR2Bias(measured, m) as number).toBeCloseTo(0.5 - measured, 2);
+    expect(foldR2Bias(0.5, 3)).toBeNull();
+  });
+
+  it("warns with the size of the bias for R² on small folds, and not for large ones", () => {
+    const r2Curve = (rows: number): CurveFile =>
+      curveOf(
+        exactPoints((n) => 0.6 - 2 * Math.pow(n, -0.5)),
+        { metric: "r2", metricRange: undefined, rows, task: "regression" },
+      );
+    // 50 rows in 5 folds: test folds of 10 rows; at L = 800 the curve reads 0.5293, so about
+    // 3 × 0.4707 / 10 = 14 points low.
+    const small = forecastCurve(r2Curve(50), { draws: 20, calibration: null });
+    expect(small.warnings.join("\n")).toMatch(
+      /R² on test folds of about 10 rows.*by about 14 points at the largest size/,
+    );
+    const large = forecastCurve(r2Curve(5000), { draws: 20, calibration: null });
+    expect(large.warnings.join("\n")).not.toMatch(/R² on test folds/);
   });
 });

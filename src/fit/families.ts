@@ -608,7 +608,8 @@ export function fitCurveFamily(
       continue;
     }
     if (!fit.converged) {
-      lastProblem = `no convergence in ${fit.iterations} iterations from [${start.join(", ")}]`;
+      // The start to 4 significant digits: the message reaches the report's warnings.
+      lastProblem = `no convergence in ${fit.iterations} iterations from [${start.map((v) => Number(v.toPrecision(4))).join(", ")}]`;
       continue;
     }
     converged++;

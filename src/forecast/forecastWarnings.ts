@@ -150,7 +150,9 @@ export function forecastWarnings(input: WarningInput): string[] {
 
   // Families.
   for (const { family, reason } of assessment.leftOut) {
-    warnings.push(`The ${family} family was left out of the forecast: ${reason}.`);
+    // A fit's error names its family already ("mmf4: no fit converged ..."); the sentence names it once.
+    const why = reason.startsWith(`${family}: `) ? reason.slice(family.length + 2) : reason;
+    warnings.push(`The ${family} family was left out of the forecast: ${why}.`);
   }
   if (options.family !== undefined && !assessment.backtested && count >= fewestSizes) {
     warnings.push(

@@ -24,6 +24,7 @@
  * regression for the other two, as pow3 does.
  */
 import { FitError } from "../errors.js";
+import { formatSignificant } from "../format.js";
 import { message } from "../messages.js";
 import { fitLeastSquares, type LeastSquaresResult } from "./levenbergMarquardt.js";
 
@@ -609,7 +610,7 @@ export function fitCurveFamily(
     }
     if (!fit.converged) {
       // The start to 4 significant digits: the message reaches the report's warnings.
-      lastProblem = `no convergence in ${fit.iterations} iterations from [${start.map((v) => Number(v.toPrecision(4))).join(", ")}]`;
+      lastProblem = `no convergence in ${fit.iterations} iterations from [${start.map((v) => formatSignificant(v)).join(", ")}]`;
       continue;
     }
     converged++;

@@ -2,11 +2,12 @@
  * The forecast's warnings, in plain words, for curves and settings that make a forecast unreliable:
  * too few sizes or repeats, a curve that is not monotone, flat, falling or already at the metric's
  * best value, far extrapolation, families that could not be fitted or checked, refits that failed,
- * and R² read low on small test folds (`foldR2Bias`). A difference counts as real when it exceeds twice its standard error (from the variance
- * of each size's mean that resampling repeats sees).
+ * and R² read low on small test folds (`foldR2Bias`). A difference counts as real when it exceeds
+ * twice its standard error (from the variance of each size's mean that resampling repeats sees).
  */
 import { formatSignificant } from "../format.js";
 import type { CurveFile } from "../curve/curveFile.js";
+import { r2 } from "../curve/metrics.js";
 import { orientedRange } from "../fit/families.js";
 import type { FamilyAssessment } from "./backtest.js";
 import type { DrawnCurves } from "./drawCurves.js";
@@ -141,7 +142,7 @@ export function forecastWarnings(input: WarningInput): string[] {
 
   // R² on small test folds.
   const foldRows = testRowsPerFold(input.curve);
-  const bias = input.curve.metric === "r2" && foldRows !== null ? foldR2Bias(last.mean, foldRows) : null;
+  const bias = input.curve.metric === r2.name && foldRows !== null ? foldR2Bias(last.mean, foldRows) : null;
   if (bias !== null && bias >= r2BiasWarning) {
     warnings.push(
       `The scores are R² on test folds of about ${Math.round(foldRows as number)} rows, each measured around its own fold's mean; on folds this small R² reads low, here by about ${formatSignificant(100 * bias, 2)} points at the largest size (3 × (1 − R²) / rows per fold). The curve and its forecast understate the R² a model would score on new data; fewer, larger folds lessen this.`,

@@ -2,6 +2,7 @@
  * The methods appendix's paragraph on what the forecast learned from and how it was checked (a
  * separate function so that the report's page builder only has to call it).
  */
+import { formatSignificant } from "../format.js";
 import type { ForecastFile } from "../forecast/forecastFile.js";
 import { distanceLeftShare, reliabilityOf } from "../forecast/gainCorrection.js";
 
@@ -59,7 +60,7 @@ function reliabilityText(
   largest: number,
 ): string {
   if (reliabilitySize === null) return "";
-  const n = (v: number): string => String(Number(v.toPrecision(4)));
+  const n = formatSignificant;
   return (
     ` These two weights depend on L: the slope counts ${n(slopeWeight)} × L / (L + ${n(reliabilitySize)}) ` +
     `and the distance left ${n(headroomWeight)} × ${n(reliabilitySize)} / (L + ${n(reliabilitySize)}), here ` +

@@ -54,6 +54,11 @@ export interface CurveFile {
   /** With `--tune`: the settings the inner cross-validation chose from, and its folds. */
   tuning?: { grid: Record<string, number>[]; innerFolds: number };
   classNames?: string[];
+  /**
+   * Rows of each class in the data set measured, in `classNames` order. Absent in older files and
+   * in curves brought as CSV.
+   */
+  classCounts?: number[];
   /** What the user should know about how the curve was measured (fallbacks, left-out folds). */
   warnings?: string[];
   /** File name (not path) and SHA-256 of the data the curve was measured on. */

@@ -342,7 +342,7 @@ export async function measureCurve(
     ...(design.runs === undefined ? {} : { runs: design.runs, rowsPerRun: data.rows / design.runs }),
     ...(grid === undefined ? {} : { tuning: { grid: grid.map((settings) => ({ ...settings })), innerFolds } }),
     ...provenance,
-    ...(o.task === "classification" ? { classNames: data.classNames } : {}),
+    ...(o.task === "classification" ? { classNames: data.classNames, classCounts } : {}),
     ...(warnings.length > 0 ? { warnings } : {}),
     points: trainingSizes.map((trainingSize, s) => ({
       trainingSize,

@@ -13,25 +13,40 @@ import type { CurveFile, CurvePoint } from "./curveFile.js";
 
 const finite = z.number().refine(Number.isFinite, "must be a finite number");
 
-const curveSchema = z.object({
-  kind: z.literal("headroom-curve"),
-  version: z.literal(1),
-  metric: z.string(),
-  higherIsBetter: z.boolean(),
-  metricRange: z.tuple([finite, finite]).optional(),
-  rows: z.number().int().positive(),
-  folds: z.number().int().min(1).optional(),
-  repeats: z.number().int().min(1).optional(),
-  points: z
-    .array(
-      z.object({
-        trainingSize: z.number().int().positive(),
-        scores: z.array(finite).min(1),
-        repeatOfScore: z.array(z.number().int().nonnegative()).optional(),
-      }),
-    )
-    .min(1),
-});
+const curveSchema = z
+  .object({
+    kind: z.literal("headroom-curve"),
+    version: z.literal(1),
+    metric: z.string(),
+    higherIsBetter: z.boolean(),
+    metricRange: z.tuple([finite, finite]).optional(),
+    rows: z.number().int().positive(),
+    folds: z.number().int().min(1).optional(),
+    repeats: z.number().int().min(1).optional(),
+    classNames: z.array(z.string()).optional(),
+    classCounts: z.array(z.number().int().nonnegative()).optional(),
+    points: z
+      .array(
+        z.object({
+          trainingSize: z.number().int().positive(),
+          scores: z.array(finite).min(1),
+          repeatOfScore: z.array(z.number().int().nonnegative()).optional(),
+        }),
+      )
+      .min(1),
+  })
+  .superRefine((curve, context) => {
+    // The forecast reads the most common class's share from these (forecastWarnings), so a count
+    // must belong to a named class and the counts must add up to the rows measured.
+    const counts = curve.classCounts;
+    if (counts === undefined) return;
+    const path = ["classCounts"];
+    if (counts.length !== (curve.classNames?.length ?? 0)) {
+      context.addIssue({ code: "custom", path, message: "must give one count for each of classNames" });
+    } else if (counts.reduce((sum, count) => sum + count, 0) !== curve.rows) {
+      context.addIssue({ code: "custom", path, message: `must add up to rows (${curve.rows})` });
+    }
+  });
 
 /** Reads a curve from a .json or .csv file. @throws InputError, DataError */
 export function readCurve(file: string, metricOptions: { metric?: string; higherIsBetter?: boolean } = {}): CurveFile {

@@ -1,13 +1,14 @@
 /**
  * The forecast's warnings, in plain words, for curves and settings that make a forecast unreliable:
  * too few sizes or repeats, a curve that is not monotone, flat, falling or already at the metric's
- * best value, far extrapolation, families that could not be fitted or checked, refits that failed,
- * and R² read low on small test folds (`foldR2Bias`). A difference counts as real when it exceeds
- * twice its standard error (from the variance of each size's mean that resampling repeats sees).
+ * best value, accuracy no better than always answering the most common class (`mostCommonClass`),
+ * far extrapolation, families that could not be fitted or checked, refits that failed, and R² read
+ * low on small test folds (`foldR2Bias`). A difference counts as real when it exceeds twice its
+ * standard error (from the variance of each size's mean that resampling repeats sees).
  */
 import { formatSignificant } from "../format.js";
 import type { CurveFile } from "../curve/curveFile.js";
-import { r2 } from "../curve/metrics.js";
+import { accuracy, r2 } from "../curve/metrics.js";
 import { orientedRange } from "../fit/families.js";
 import type { FamilyAssessment } from "./backtest.js";
 import type { DrawnCurves } from "./drawCurves.js";
@@ -42,6 +43,25 @@ const r2BiasWarning = 0.01;
  */
 export function foldR2Bias(measuredR2: number, testRows: number): number | null {
   return testRows > 3 ? (3 * (1 - measuredR2)) / testRows : null;
+}
+
+/**
+ * The most common class of the data set measured and its share of the rows: the accuracy a model
+ * scores by always answering it, ignoring the features (scikit-learn's
+ * `DummyClassifier(strategy="most_frequent")`). Null when the curve records no class counts. A tie
+ * goes to the class named first.
+ */
+export function mostCommonClass(
+  curve: Pick<CurveFile, "classNames" | "classCounts">,
+): { name: string; share: number } | null {
+  const counts = curve.classCounts;
+  const names = curve.classNames;
+  if (counts === undefined || names === undefined || counts.length !== names.length || counts.length === 0) return null;
+  const total = counts.reduce((sum, count) => sum + count, 0);
+  if (total <= 0) return null;
+  let best = 0;
+  for (let k = 1; k < counts.length; k++) if (counts[k] > counts[best]) best = k;
+  return { name: names[best], share: counts[best] / total };
 }
 
 export interface WarningInput {
@@ -102,6 +122,19 @@ export function forecastWarnings(input: WarningInput): string[] {
     if (gap <= Math.max(2 * Math.sqrt(meanVariances[count - 1]), ceilingFraction * (range[1] - range[0]))) {
       warnings.push(
         `The mean score at the largest training size (${last.trainingSize}: ${formatSignificant(last.mean)}) is already at the metric's best possible value (${formatSignificant(measured.sign * range[1] + 0)}) within its noise; more data has little or no room to help.`,
+      );
+    }
+  }
+
+  // Accuracy no better than always answering the most common class. As for the ceiling, at least
+  // half a point: a model that always answers that class scores it exactly at every repeat (no
+  // noise), up to how the test folds happened to split the classes.
+  const common = input.curve.metric === accuracy.name ? mostCommonClass(input.curve) : null;
+  if (common !== null) {
+    const margin = Math.max(2 * Math.sqrt(meanVariances[count - 1]), ceilingFraction);
+    if (!(last.mean - common.share > margin)) {
+      warnings.push(
+        `The mean accuracy at the largest training size (${last.trainingSize}: ${formatSignificant(last.mean)}) is not above the ${formatSignificant(common.share)} that always answering the most common class, '${common.name}', would score, by more than its noise: so far the model does no better than ignoring the features, and a forecast of its accuracy says little. Measuring balanced_accuracy or roc_auc (--metric) shows whether it tells the classes apart at all.`,
       );
     }
   }

@@ -19,6 +19,8 @@ import {
   scoreStyle,
   type MetricInfo,
 } from "../format.js";
+import { accuracy } from "../curve/metrics.js";
+import { mostCommonClass } from "../forecast/forecastWarnings.js";
 import { limitsInWords } from "../weigh/decisionWords.js";
 import type { ReportInput } from "./reportInput.js";
 
@@ -122,7 +124,17 @@ export function methodsSection(input: ReportInput, info: MetricInfo, backtestCha
       `${curve.group ? `, keeping groups of ${curve.group} together` : ""}.`,
   ];
   if (curve.classNames && curve.classNames.length > 0) {
-    measurement.push(`Classes: ${curve.classNames.join(", ")}.`);
+    const counts = curve.classCounts?.length === curve.classNames.length ? curve.classCounts : undefined;
+    const named = curve.classNames.map((name, k) =>
+      counts === undefined ? name : `${name} (${formatCount(counts[k])} ${counts[k] === 1 ? "row" : "rows"})`,
+    );
+    const common = curve.metric === accuracy.name ? mostCommonClass(curve) : null;
+    measurement.push(
+      `Classes: ${named.join(", ")}.` +
+        (common === null
+          ? ""
+          : ` Always answering ${common.name}, whatever the features, would score an accuracy of ${formatScore(common.share, scoreStyle(info, [common.share]))}: the level a model must clearly beat.`),
+    );
   }
   if (curve.unit === "runs") {
     measurement.push(`Training sizes count whole runs (groups of ${curve.group ?? "rows"}), not rows.`);

@@ -374,6 +374,21 @@ describe("renderReportHtml", () => {
     expect(none).not.toContain("decisions about people");
   });
 
+  it("gives each class's rows and, for accuracy, the score of always answering the most common class", () => {
+    // Class counts of the Wisconsin diagnostic breast cancer data (Street, Wolberg and Mangasarian
+    // 1993; as described by scikit-learn's load_breast_cancer and fixtures/open-data/README.md):
+    // benign 357, malignant 212 of 569; always answering benign scores 357 / 569 = 62.7%.
+    const curve = { ...sampleInput.curve, rows: 569, classCounts: [357, 212] };
+    const methods = textOf(splitPage(renderReportHtml({ ...sampleInput, curve })).markup, "methods");
+    expect(methods).toContain("Classes: benign (357 rows), malignant (212 rows).");
+    expect(methods).toContain("Always answering benign, whatever the features, would score an accuracy of 62.7%");
+    // Another metric has another baseline (balanced accuracy 50%, log loss none): the counts only.
+    const logLoss = { ...curve, metric: "log_loss", higherIsBetter: false, metricRange: undefined };
+    const other = textOf(splitPage(renderReportHtml({ ...sampleInput, curve: logLoss })).markup, "methods");
+    expect(other).toContain("Classes: benign (357 rows), malignant (212 rows).");
+    expect(other).not.toContain("Always answering");
+  });
+
   it("lists the forecast's warnings", () => {
     const warned = renderReportHtml({
       ...sampleInput,

@@ -127,8 +127,9 @@ export function forecastWarnings(input: WarningInput): string[] {
   }
 
   // Accuracy no better than always answering the most common class. As for the ceiling, at least
-  // half a point: a model that always answers that class scores it exactly at every repeat (no
-  // noise), up to how the test folds happened to split the classes.
+  // half a point (ceilingFraction of accuracy's range 0–1): a model that always answers that class
+  // scores it exactly at every repeat (no noise), up to how the test folds happened to split the
+  // classes.
   const common = input.curve.metric === accuracy.name ? mostCommonClass(input.curve) : null;
   if (common !== null) {
     const margin = Math.max(2 * Math.sqrt(meanVariances[count - 1]), ceilingFraction);

@@ -20,7 +20,7 @@ import {
   type MetricInfo,
 } from "../format.js";
 import { accuracy } from "../curve/metrics.js";
-import { mostCommonClass } from "../forecast/forecastWarnings.js";
+import { mostCommonClass } from "../curve/mostCommonClass.js";
 import { limitsInWords } from "../weigh/decisionWords.js";
 import type { ReportInput } from "./reportInput.js";
 

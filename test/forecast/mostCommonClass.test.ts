@@ -21,7 +21,7 @@ import { readCurve } from "../../src/curve/readCurve.js";
 import { readCsv } from "../../src/data/csv.js";
 import { tableToDataset } from "../../src/data/tableToDataset.js";
 import { forecastCurve } from "../../src/forecast/forecast.js";
-import { mostCommonClass } from "../../src/forecast/forecastWarnings.js";
+import { mostCommonClass } from "../../src/curve/mostCommonClass.js";
 
 const file = new URL("../../fixtures/open-data/pima_diabetes.csv", import.meta.url).pathname;
 const columns = ["preg", "plas", "pres", "skin", "insu", "mass", "pedi", "age"];

@@ -36,8 +36,8 @@ const curveSchema = z
       .min(1),
   })
   .superRefine((curve, context) => {
-    // The forecast reads the most common class's share from these (forecastWarnings), so a count
-    // must belong to a named class and the counts must add up to the rows measured.
+    // The most common class's share is read from these (mostCommonClass), so a count must belong
+    // to a named class and the counts must add up to the rows measured.
     const counts = curve.classCounts;
     if (counts === undefined) return;
     const path = ["classCounts"];
